@@ -1,0 +1,10 @@
+import type { Role } from '#shared/types/roles'
+
+export interface NavItem { to: string, label: string }
+
+// The main menu for a person's roles; each entry is a page that exists.
+export function navFor(roles: Role[], has: (...r: Role[]) => boolean): NavItem[] {
+  const items: NavItem[] = [{ to: '/', label: 'Home' }]
+  if (has('admin')) items.push({ to: '/admin', label: 'People' }, { to: '/admin/outbox', label: 'Outbox' }, { to: '/admin/audit', label: 'Audit' })
+  return roles.length ? items : []
+}

@@ -1,0 +1,318 @@
+// Glint's tables. Ids are random (not guessable in URLs); times are milliseconds since the epoch.
+import { sql } from 'drizzle-orm'
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
+
+const now = sql`(unixepoch('subsec') * 1000)`
+const timestamps = {
+  createdAt: integer('created_at').notNull().default(now),
+  updatedAt: integer('updated_at').notNull().default(now),
+}
+
+// ---------------------------------------------------------------- people
+
+export const users = sqliteTable('users', {
+  id: text('id').primaryKey(),
+  email: text('email').notNull(),
+  name: text('name').notNull(),
+  passwordHash: text('password_hash').notNull(),
+  disabled: integer('disabled', { mode: 'boolean' }).notNull().default(false),
+  // Raised on sign-out and disable: sessions carrying an older value are refused.
+  sessionVersion: integer('session_version').notNull().default(1),
+  nightMode: text('night_mode').notNull().default('auto'), // auto | day | night
+  remindersOptOut: integer('reminders_opt_out', { mode: 'boolean' }).notNull().default(false),
+  ...timestamps,
+}, t => [uniqueIndex('users_email_uq').on(t.email)])
+
+export const userRoles = sqliteTable('user_roles', {
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  role: text('role').notNull(), // trainee | instructor | lead | admin
+}, t => [primaryKey({ columns: [t.userId, t.role] })])
+
+export const crews = sqliteTable('crews', {
+  id: text('id').primaryKey(),
+  name: text('name').notNull(),
+  // The crew's readiness standard, set by its lead.
+  minAccuracy: real('min_accuracy').notNull().default(0.9),
+  minCallsPerTrack: integer('min_calls_per_track').notNull().default(2),
+  windowDays: integer('window_days').notNull().default(14),
+  ...timestamps,
+}, t => [uniqueIndex('crews_name_uq').on(t.name)])
+
+export const memberships = sqliteTable('memberships', {
+  crewId: text('crew_id').notNull().references(() => crews.id, { onDelete: 'cascade' }),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  createdAt: integer('created_at').notNull().default(now),
+}, t => [primaryKey({ columns: [t.crewId, t.userId] }), index('memberships_user_idx').on(t.userId)])
+
+export const invitations = sqliteTable('invitations', {
+  id: text('id').primaryKey(),
+  tokenHash: text('token_hash').notNull(),
+  email: text('email').notNull(),
+  role: text('role').notNull(),
+  crewId: text('crew_id').references(() => crews.id, { onDelete: 'cascade' }),
+  invitedBy: text('invited_by').notNull().references(() => users.id),
+  expiresAt: integer('expires_at').notNull(),
+  usedAt: integer('used_at'),
+  createdAt: integer('created_at').notNull().default(now),
+}, t => [uniqueIndex('invitations_token_uq').on(t.tokenHash)])
+
+export const passwordResets = sqliteTable('password_resets', {
+  id: text('id').primaryKey(),
+  tokenHash: text('token_hash').notNull(),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  expiresAt: integer('expires_at').notNull(),
+  usedAt: integer('used_at'),
+  createdAt: integer('created_at').notNull().default(now),
+}, t => [uniqueIndex('password_resets_token_uq').on(t.tokenHash)])
+
+export const mails = sqliteTable('mails', {
+  id: text('id').primaryKey(),
+  to: text('to').notNull(),
+  subject: text('subject').notNull(),
+  text: text('text').notNull(),
+  html: text('html').notNull(),
+  transport: text('transport').notNull(), // outbox | smtp
+  status: text('status').notNull(), // sent | failed
+  error: text('error'),
+  sentAt: integer('sent_at').notNull().default(now),
+}, t => [index('mails_sent_idx').on(t.sentAt)])
+
+export const auditLog = sqliteTable('audit_log', {
+  id: text('id').primaryKey(),
+  actorId: text('actor_id').references(() => users.id, { onDelete: 'set null' }),
+  action: text('action').notNull(),
+  subjectType: text('subject_type').notNull(),
+  subjectId: text('subject_id'),
+  detail: text('detail', { mode: 'json' }).$type<Record<string, unknown>>(),
+  createdAt: integer('created_at').notNull().default(now),
+}, t => [index('audit_created_idx').on(t.createdAt)])
+
+// ---------------------------------------------------------------- decks and silhouettes
+
+export const decks = sqliteTable('decks', {
+  id: text('id').primaryKey(),
+  title: text('title').notNull(),
+  description: text('description').notNull().default(''),
+  category: text('category').notNull(), // aircraft | vessel | mixed
+  ownerId: text('owner_id').notNull().references(() => users.id),
+  status: text('status').notNull().default('draft'), // draft | published | archived
+  hesitationMs: integer('hesitation_ms').notNull().default(1500),
+  windowMs: integer('window_ms').notNull().default(5000),
+  newPerDay: integer('new_per_day').notNull().default(10),
+  retention: real('retention').notNull().default(0.9),
+  choiceCount: integer('choice_count').notNull().default(4),
+  answerMode: text('answer_mode').notNull().default('choices'), // choices | typed
+  minExposureMs: integer('min_exposure_ms').notNull().default(200),
+  ...timestamps,
+})
+
+export const deckCrews = sqliteTable('deck_crews', {
+  deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
+  crewId: text('crew_id').notNull().references(() => crews.id, { onDelete: 'cascade' }),
+}, t => [primaryKey({ columns: [t.deckId, t.crewId] }), index('deck_crews_crew_idx').on(t.crewId)])
+
+export const targetTypes = sqliteTable('target_types', {
+  id: text('id').primaryKey(),
+  deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
+  name: text('name').notNull(),
+  category: text('category').notNull(), // aircraft | vessel
+  affiliation: text('affiliation').notNull(), // friendly | hostile | neutral
+  sizeM: real('size_m').notNull(),
+  features: text('features', { mode: 'json' }).notNull().$type<Record<string, string>>(),
+  ...timestamps,
+}, t => [uniqueIndex('target_types_deck_name_uq').on(t.deckId, t.name)])
+
+export const lookAlikes = sqliteTable('look_alikes', {
+  typeId: text('type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  otherId: text('other_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+}, t => [primaryKey({ columns: [t.typeId, t.otherId] })])
+
+export const views = sqliteTable('views', {
+  id: text('id').primaryKey(),
+  targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  aspect: text('aspect').notNull(),
+  sourceSha: text('source_sha').notNull(),
+  width: integer('width').notNull(),
+  height: integer('height').notNull(),
+  ...timestamps,
+}, t => [index('views_type_idx').on(t.targetTypeId)])
+
+// One rendering of a view under one condition at one size; `file` is a content hash name.
+export const variants = sqliteTable('variants', {
+  id: text('id').primaryKey(),
+  viewId: text('view_id').notNull().references(() => views.id, { onDelete: 'cascade' }),
+  condition: text('condition').notNull(),
+  width: integer('width').notNull(),
+  height: integer('height').notNull(),
+  bytes: integer('bytes').notNull(),
+  contrast: real('contrast').notNull(),
+  file: text('file').notNull(),
+}, t => [index('variants_view_idx').on(t.viewId), uniqueIndex('variants_file_uq').on(t.file)])
+
+export const jobs = sqliteTable('jobs', {
+  id: text('id').primaryKey(),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  deckId: text('deck_id').references(() => decks.id, { onDelete: 'cascade' }),
+  kind: text('kind').notNull(), // render
+  state: text('state').notNull().default('queued'), // queued | running | done | failed
+  progress: real('progress').notNull().default(0),
+  message: text('message'),
+  fileName: text('file_name'),
+  viewId: text('view_id'),
+  ...timestamps,
+})
+
+// ---------------------------------------------------------------- drilling
+
+// FSRS card state in columns (ts-fsrs Card), one per trainee x target type x aspect.
+export const tracks = sqliteTable('tracks', {
+  id: text('id').primaryKey(),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
+  targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  aspect: text('aspect').notNull(),
+  due: integer('due').notNull(),
+  stability: real('stability').notNull().default(0),
+  difficulty: real('difficulty').notNull().default(0),
+  elapsedDays: integer('elapsed_days').notNull().default(0),
+  scheduledDays: integer('scheduled_days').notNull().default(0),
+  learningSteps: integer('learning_steps').notNull().default(0),
+  reps: integer('reps').notNull().default(0),
+  lapses: integer('lapses').notNull().default(0),
+  state: integer('state').notNull().default(0),
+  lastReview: integer('last_review'),
+  ...timestamps,
+}, t => [
+  uniqueIndex('tracks_user_type_aspect_uq').on(t.userId, t.targetTypeId, t.aspect),
+  index('tracks_user_deck_due_idx').on(t.userId, t.deckId, t.due),
+])
+
+export const watches = sqliteTable('watches', {
+  id: text('id').primaryKey(),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  deckId: text('deck_id').references(() => decks.id, { onDelete: 'cascade' }),
+  kind: text('kind').notNull().default('watch'), // watch | check
+  checkId: text('check_id'),
+  day: text('day').notNull(), // YYYY-MM-DD, the trainee's watch day
+  status: text('status').notNull().default('open'), // open | closed
+  ...timestamps,
+  closedAt: integer('closed_at'),
+}, t => [index('watches_user_day_idx').on(t.userId, t.day)])
+
+export const sightings = sqliteTable('sightings', {
+  id: text('id').primaryKey(),
+  watchId: text('watch_id').notNull().references(() => watches.id, { onDelete: 'cascade' }),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  trackId: text('track_id').references(() => tracks.id, { onDelete: 'cascade' }),
+  targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  position: integer('position').notNull(),
+  variantId: text('variant_id').references(() => variants.id, { onDelete: 'set null' }),
+  aspect: text('aspect').notNull(),
+  condition: text('condition').notNull(),
+  rangeM: real('range_m').notNull(),
+  binoculars: integer('binoculars', { mode: 'boolean' }).notNull().default(true),
+  apparentPx: real('apparent_px').notNull(),
+  exposureMs: integer('exposure_ms').notNull(),
+  windowMs: integer('window_ms').notNull(),
+  choices: text('choices', { mode: 'json' }).notNull().$type<{ id: string, label: string }[]>(),
+  answerChoiceId: text('answer_choice_id').notNull(),
+  reshowOf: text('reshow_of'),
+  voidedAt: integer('voided_at'),
+  issuedAt: integer('issued_at').notNull(),
+}, t => [index('sightings_watch_idx').on(t.watchId, t.position)])
+
+// One call per sighting (the unique index makes a resend count once).
+export const calls = sqliteTable('calls', {
+  id: text('id').primaryKey(),
+  sightingId: text('sighting_id').notNull().references(() => sightings.id, { onDelete: 'cascade' }),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
+  trackId: text('track_id').references(() => tracks.id, { onDelete: 'cascade' }),
+  targetTypeId: text('target_type_id').notNull(),
+  calledTypeId: text('called_type_id'),
+  aspect: text('aspect').notNull(),
+  condition: text('condition').notNull(),
+  choiceId: text('choice_id'),
+  typed: text('typed'),
+  correct: integer('correct', { mode: 'boolean' }).notNull(),
+  grade: text('grade').notNull(), // missed | hesitant | sure | instant
+  anticipation: integer('anticipation', { mode: 'boolean' }).notNull().default(false),
+  latencyMs: integer('latency_ms'),
+  framesShown: integer('frames_shown'),
+  frameIntervalMs: real('frame_interval_ms'),
+  calledAt: integer('called_at').notNull(),
+  receivedAt: integer('received_at').notNull(),
+  offline: integer('offline', { mode: 'boolean' }).notNull().default(false),
+  // FSRS state before and after, so a track's history can be replayed.
+  before: text('before', { mode: 'json' }).$type<Record<string, number | null>>(),
+  after: text('after', { mode: 'json' }).$type<Record<string, number | null>>(),
+  result: text('result', { mode: 'json' }).$type<Record<string, unknown>>(),
+}, t => [
+  uniqueIndex('calls_sighting_uq').on(t.sightingId),
+  index('calls_user_time_idx').on(t.userId, t.calledAt),
+  index('calls_deck_time_idx').on(t.deckId, t.calledAt),
+])
+
+export const tapBaselines = sqliteTable('tap_baselines', {
+  id: text('id').primaryKey(),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  simpleMs: real('simple_ms').notNull(),
+  choiceMs: real('choice_ms').notNull(),
+  trials: integer('trials').notNull(),
+  createdAt: integer('created_at').notNull().default(now),
+}, t => [index('tap_baselines_user_idx').on(t.userId, t.createdAt)])
+
+// ---------------------------------------------------------------- checks
+
+export const checks = sqliteTable('checks', {
+  id: text('id').primaryKey(),
+  deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
+  title: text('title').notNull(),
+  sightingCount: integer('sighting_count').notNull(),
+  exposureMs: integer('exposure_ms').notNull(),
+  conditions: text('conditions', { mode: 'json' }).notNull().$type<string[]>(),
+  aspects: text('aspects', { mode: 'json' }).notNull().$type<string[]>(),
+  passMark: real('pass_mark').notNull(),
+  createdBy: text('created_by').notNull().references(() => users.id),
+  ...timestamps,
+})
+
+export const checkAttempts = sqliteTable('check_attempts', {
+  id: text('id').primaryKey(),
+  checkId: text('check_id').notNull().references(() => checks.id, { onDelete: 'cascade' }),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  watchId: text('watch_id').references(() => watches.id, { onDelete: 'set null' }),
+  status: text('status').notNull().default('running'), // running | finished | reset
+  score: real('score'),
+  passed: integer('passed', { mode: 'boolean' }),
+  signedOffBy: text('signed_off_by').references(() => users.id),
+  signedOffAt: integer('signed_off_at'),
+  startedAt: integer('started_at').notNull(),
+  finishedAt: integer('finished_at'),
+}, t => [index('check_attempts_user_idx').on(t.userId, t.checkId)])
+
+// ---------------------------------------------------------------- scan drill
+
+export const scanDrills = sqliteTable('scan_drills', {
+  id: text('id').primaryKey(),
+  title: text('title').notNull(),
+  settings: text('settings', { mode: 'json' }).notNull().$type<Record<string, unknown>>(),
+  createdBy: text('created_by').notNull().references(() => users.id),
+  ...timestamps,
+})
+
+export const scanDrillCrews = sqliteTable('scan_drill_crews', {
+  drillId: text('drill_id').notNull().references(() => scanDrills.id, { onDelete: 'cascade' }),
+  crewId: text('crew_id').notNull().references(() => crews.id, { onDelete: 'cascade' }),
+}, t => [primaryKey({ columns: [t.drillId, t.crewId] })])
+
+export const scanPasses = sqliteTable('scan_passes', {
+  id: text('id').primaryKey(),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  drillId: text('drill_id').references(() => scanDrills.id, { onDelete: 'set null' }),
+  score: text('score', { mode: 'json' }).notNull().$type<Record<string, unknown>>(),
+  coverage: real('coverage').notNull(),
+  contactsFound: integer('contacts_found').notNull(),
+  contactsShown: integer('contacts_shown').notNull(),
+  createdAt: integer('created_at').notNull().default(now),
+}, t => [index('scan_passes_user_idx').on(t.userId, t.createdAt)])

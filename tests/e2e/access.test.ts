@@ -1,0 +1,82 @@
+// The authorisation matrix: every route under server/api x each role x own crew / other crew.
+import { readdirSync, statSync } from 'node:fs'
+import { join, relative } from 'node:path'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { Client, signedIn } from '../support/client'
+import { MATRIX } from './access-matrix'
+import type { Expect } from './access-matrix'
+
+function routeFiles(dir: string): string[] {
+  return readdirSync(dir).flatMap((f) => {
+    const p = join(dir, f)
+    return statSync(p).isDirectory() ? routeFiles(p) : [p]
+  })
+}
+
+// server/api/crews/[id]/members/[userId].delete.ts -> DELETE /api/crews/:crew/members/:user
+export function routeKey(file: string) {
+  const rel = relative('server', file).replace(/\\/g, '/').replace(/\.ts$/, '')
+  const m = rel.match(/^(.*?)(?:\.(get|post|patch|put|delete))?$/)!
+  const method = (m[2] ?? 'get').toUpperCase()
+  // A parameter is named by the folder before it: crews/[id] -> :crew, users/[id] -> :user.
+  const path = `/${m[1]!}`.replace(/\/index$/, '')
+    .replace(/([\w-]+)s\/\[id\]/g, (_, kind: string) => `${kind}s/:${kind}`)
+    .replace(/\[(\w+?)Id\]/g, (_, kind: string) => `:${kind}`)
+  return `${method} ${path}`
+}
+
+const ROLES = ['trainee', 'instructor', 'lead', 'admin'] as const
+const PEOPLE = { trainee: 'trainee@glint.demo', instructor: 'instructor@glint.demo', lead: 'lead@glint.demo', admin: 'admin@glint.demo' }
+
+function concrete(key: string, params: Record<string, string>) {
+  const [method, path] = key.split(' ') as [string, string]
+  // Crew-scoped params are resolved first; any other param gets a well-formed id that exists nowhere.
+  return { method, path: path.replace(/:(\w+)/g, (_, k: string) => params[k] ?? 'AAAAAAAAAAAAAAAAAAAAAA') }
+}
+
+function check(status: number, expected: Expect, label: string) {
+  if (expected === 'pass') expect(status, label).not.toBeOneOf([401, 403])
+  else expect(status, label).toBe(expected)
+  expect(status, `${label}: never a 5xx`).toBeLessThan(500)
+}
+
+describe('authorisation matrix', () => {
+  const files = routeFiles('server/api').filter(f => f.endsWith('.ts'))
+  const keys = files.map(routeKey)
+  let ownCrew = ''
+  let otherCrew = ''
+
+  beforeAll(async () => {
+    const lead = await signedIn('lead@glint.demo')
+    const lead2 = await signedIn('lead2@glint.demo')
+    ownCrew = (await lead.get('/api/auth/me')).body.crews[0].id
+    otherCrew = (await lead2.get('/api/auth/me')).body.crews[0].id
+  })
+
+  it('has an entry for every route file, and no entry without a route', () => {
+    expect(keys.length).toBeGreaterThan(10)
+    expect(keys.filter(k => !MATRIX[k]), 'routes missing from tests/e2e/access-matrix.ts').toEqual([])
+    expect(Object.keys(MATRIX).filter(k => !keys.includes(k)), 'matrix entries without a route').toEqual([])
+  })
+
+  for (const key of Object.keys(MATRIX)) {
+    it(key, async () => {
+      const entry = MATRIX[key]!
+      const crewScoped = key.includes(':crew')
+      const anon = concrete(key, { crew: ownCrew })
+      check((await new Client().req(anon.method, anon.path, anon.method === 'GET' ? undefined : {})).status, entry.anon, `${key} anonymous`)
+      for (const role of ROLES) {
+        // The demo trainee and instructor are in the lead's crew (Skerrow Point); lead2 leads the other.
+        const own = concrete(key, { crew: ownCrew })
+        const c = await signedIn(PEOPLE[role])
+        check((await c.req(own.method, own.path, own.method === 'GET' ? undefined : {})).status, entry[role], `${key} as ${role}`)
+        if (crewScoped) {
+          const other = concrete(key, { crew: otherCrew })
+          const expected = entry.otherCrew?.[role] ?? (entry[role] === 'pass' ? 403 : entry[role])
+          const c2 = await signedIn(PEOPLE[role])
+          check((await c2.req(other.method, other.path, other.method === 'GET' ? undefined : {})).status, expected, `${key} as ${role}, other crew`)
+        }
+      }
+    })
+  }
+})

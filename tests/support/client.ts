@@ -1,0 +1,64 @@
+// A small HTTP client with a cookie jar, for signed-in requests against the built server.
+import { inject } from 'vitest'
+
+export const DEMO_PASSWORD = 'harbour-lantern-42'
+
+export interface Res<T = any> { status: number, body: T, headers: Headers, text: string }
+
+export class Client {
+  cookies = new Map<string, string>()
+  constructor(public base = inject('baseUrl')) {}
+
+  cookieHeader() {
+    return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+  }
+
+  async req<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Res<T>> {
+    const h: Record<string, string> = { origin: this.base, ...headers }
+    if (this.cookies.size) h.cookie = this.cookieHeader()
+    let payload: BodyInit | undefined
+    if (typeof body === 'string' || body instanceof Uint8Array || body instanceof FormData) payload = body as BodyInit
+    else if (body !== undefined) {
+      payload = JSON.stringify(body)
+      h['content-type'] ??= 'application/json'
+    }
+    const r = await fetch(this.base + path, { method, headers: h, body: payload, redirect: 'manual' })
+    for (const c of r.headers.getSetCookie()) {
+      const [pair] = c.split(';')
+      const i = pair!.indexOf('=')
+      const name = pair!.slice(0, i)
+      const value = pair!.slice(i + 1)
+      if (!value || /max-age=0|expires=thu, 01 jan 1970/i.test(c)) this.cookies.delete(name)
+      else this.cookies.set(name, value)
+    }
+    const text = await r.text()
+    let parsed: unknown = text
+    try {
+      parsed = JSON.parse(text)
+    }
+    catch { /* not JSON */ }
+    return { status: r.status, body: parsed as T, headers: r.headers, text }
+  }
+
+  get<T = any>(path: string) { return this.req<T>('GET', path) }
+  post<T = any>(path: string, body?: unknown) { return this.req<T>('POST', path, body ?? {}) }
+  patch<T = any>(path: string, body?: unknown) { return this.req<T>('PATCH', path, body ?? {}) }
+  del<T = any>(path: string) { return this.req<T>('DELETE', path) }
+
+  async login(email: string, password = DEMO_PASSWORD) {
+    const r = await this.post('/api/auth/login', { email, password })
+    if (r.status !== 200) throw new Error(`login ${email}: ${r.status} ${r.text}`)
+    return this
+  }
+}
+
+export const signedIn = (email: string, password?: string) => new Client().login(email, password)
+
+// The link in the newest outbox mail to an address, read as the admin.
+export async function linkFromOutbox(admin: Client, to: string, path: string) {
+  const r = await admin.get<{ to: string, text: string }[]>('/api/outbox')
+  const mail = r.body.find(m => m.to === to)
+  if (!mail) return null
+  const m = mail.text.match(new RegExp(`https?://\\S+${path}\\?token=([\\w-]+)`))
+  return m ? m[1]! : null
+}

@@ -1,0 +1,82 @@
+// Starts the built server on a fresh SQLite file with the demo seed, for the e2e and browser projects.
+import { execFileSync, spawn } from 'node:child_process'
+import type { ChildProcess } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
+import { existsSync, mkdtempSync, rmSync } from 'node:fs'
+import { createServer } from 'node:net'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import type { TestProject } from 'vitest/node'
+
+declare module 'vitest' {
+  export interface ProvidedContext {
+    baseUrl: string
+    dbPath: string
+    uploadsDir: string
+    serverEnv: Record<string, string>
+  }
+}
+
+export function freePort(): Promise<number> {
+  return new Promise((ok, fail) => {
+    const s = createServer()
+    s.once('error', fail)
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as { port: number }).port
+      s.close(() => ok(port))
+    })
+  })
+}
+
+export function outputEntry() {
+  const tag = process.env.GLINT_BUILD_TAG
+  return resolve(tag ? `.output-${tag}` : '.output', 'server/index.mjs')
+}
+
+export async function waitForHealth(url: string, child: ChildProcess, timeoutMs = 30_000) {
+  const until = Date.now() + timeoutMs
+  while (Date.now() < until) {
+    if (child.exitCode !== null) throw new Error(`server exited with ${child.exitCode}`)
+    try {
+      const r = await fetch(`${url}/api/health`)
+      if (r.ok) return
+    }
+    catch { /* not up yet */ }
+    await new Promise(r => setTimeout(r, 150))
+  }
+  throw new Error('server did not answer /api/health in time')
+}
+
+export function testEnv(dir: string, port: number): Record<string, string> {
+  return {
+    ...process.env as Record<string, string>,
+    NODE_ENV: 'production',
+    NUXT_DATABASE_PATH: join(dir, 'glint.sqlite'),
+    NUXT_UPLOADS_DIR: join(dir, 'uploads'),
+    NUXT_SESSION_PASSWORD: randomBytes(24).toString('hex'),
+    NUXT_MAIL_URL: '',
+    PORT: String(port),
+    HOST: '127.0.0.1',
+  }
+}
+
+export default async function setup(project: TestProject) {
+  const entry = outputEntry()
+  if (!existsSync(entry)) throw new Error(`no built server at ${entry}: run npm run build first`)
+  const dir = mkdtempSync(join(tmpdir(), 'glint-test-'))
+  const port = await freePort()
+  const env = testEnv(dir, port)
+  execFileSync(process.execPath, [resolve('node_modules/tsx/dist/cli.mjs'), 'server/scripts/seed.ts'], { env, stdio: 'inherit' })
+  const child = spawn(process.execPath, [entry], { env, stdio: ['ignore', 'inherit', 'inherit'] })
+  const baseUrl = `http://127.0.0.1:${port}`
+  await waitForHealth(baseUrl, child)
+  project.provide('baseUrl', baseUrl)
+  project.provide('dbPath', env.NUXT_DATABASE_PATH!)
+  project.provide('uploadsDir', env.NUXT_UPLOADS_DIR!)
+  project.provide('serverEnv', env)
+  return async () => {
+    child.kill('SIGTERM')
+    await new Promise(r => child.once('exit', r))
+    rmSync(dir, { recursive: true, force: true })
+  }
+}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { DEMO_PEOPLE } from '../../server/seed/people'
-import { Client, signedIn } from '../support/client'
+import { Client, crewIdOf, freshPerson, signedIn } from '../support/client'
 
 describe('sign-in', () => {
   it('signs in every demo account and /api/auth/me shows its roles and crews (api.md contract)', async () => {
@@ -38,9 +38,10 @@ describe('sign-in', () => {
   })
 
   it('throttles repeated wrong passwords for one account with 429 before 40 tries', async () => {
+    const p = await freshPerson('trainee', await crewIdOf('lead@glint.demo'))
     const statuses: number[] = []
     for (let i = 0; i < 40; i++) {
-      const r = await new Client().post('/api/auth/login', { email: 'trainee7@glint.demo', password: `wrong-${i}-password` })
+      const r = await new Client().post('/api/auth/login', { email: p.email, password: `wrong-${i}-password` })
       statuses.push(r.status)
     }
     const first429 = statuses.indexOf(429)
@@ -48,27 +49,28 @@ describe('sign-in', () => {
     expect(first429).toBeLessThan(40)
     expect(statuses.slice(0, first429).every(s => s === 401)).toBe(true)
     // The right password is refused too while the account is blocked.
-    const right = await new Client().post('/api/auth/login', { email: 'trainee7@glint.demo', password: 'harbour-lantern-42' })
+    const right = await new Client().post('/api/auth/login', { email: p.email, password: p.password })
     expect(right.status).toBe(429)
   })
 
   it('makes every copy of a cookie useless after sign-out', async () => {
-    const c = await signedIn('trainee3@glint.demo')
+    const p = await freshPerson('trainee', null)
+    const c = p.client
     const copy = new Client()
     copy.cookies = new Map(c.cookies)
     expect((await copy.get('/api/auth/me')).status).toBe(200)
     expect((await c.post('/api/auth/logout')).status).toBe(200)
     expect((await copy.get('/api/auth/me')).status).toBe(401)
     // A fresh sign-in works again.
-    await c.login('trainee3@glint.demo')
+    await c.login(p.email, p.password)
     expect((await c.get('/api/auth/me')).status).toBe(200)
   })
 
   it('refuses the old cookie of a disabled account, and a role change takes effect on the next request', async () => {
     const admin = await signedIn('admin@glint.demo')
-    const users = (await admin.get('/api/admin/users')).body as { id: string, email: string, roles: string[] }[]
-    const t4 = users.find(u => u.email === 'trainee4@glint.demo')!
-    const c = await signedIn('trainee4@glint.demo')
+    const p = await freshPerson('trainee', null)
+    const t4 = { id: p.id }
+    const c = p.client
     expect((await c.get('/api/outbox')).status).toBe(403)
     expect((await admin.patch(`/api/admin/users/${t4.id}`, { roles: ['trainee', 'admin'] })).status).toBe(200)
     expect((await c.get('/api/outbox')).status).toBe(200)
@@ -76,9 +78,9 @@ describe('sign-in', () => {
     expect((await c.get('/api/outbox')).status).toBe(403)
     expect((await admin.patch(`/api/admin/users/${t4.id}`, { disabled: true })).status).toBe(200)
     expect((await c.get('/api/auth/me')).status).toBe(401)
-    expect((await new Client().post('/api/auth/login', { email: 'trainee4@glint.demo', password: 'harbour-lantern-42' })).status).toBe(401)
+    expect((await new Client().post('/api/auth/login', { email: p.email, password: p.password })).status).toBe(401)
     expect((await admin.patch(`/api/admin/users/${t4.id}`, { disabled: false })).status).toBe(200)
-    await c.login('trainee4@glint.demo')
+    await c.login(p.email, p.password)
     const audit = await admin.get('/api/admin/audit')
     expect(audit.body.some((a: { action: string, subjectId: string }) => a.action === 'user.update' && a.subjectId === t4.id)).toBe(true)
   })

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { Client, linkFromOutbox, signedIn } from '../support/client'
+import { Client, freshPerson, linkFromOutbox, signedIn } from '../support/client'
 
 describe('invitations and resets', () => {
   it('a lead invites a trainee into own crew; common passwords are refused; the link works once', async () => {
@@ -47,17 +47,18 @@ describe('invitations and resets', () => {
     const unknown = await new Client().post('/api/auth/reset-request', { email: 'no-such-person@glint.demo' })
     expect(unknown.status).toBe(200)
     expect((await admin.get('/api/outbox')).body.length).toBe(before)
-    const known = await new Client().post('/api/auth/reset-request', { email: 'trainee6@glint.demo' })
+    const p = await freshPerson('trainee', null)
+    const known = await new Client().post('/api/auth/reset-request', { email: p.email })
     expect(known.status).toBe(200)
     expect(known.body).toEqual(unknown.body)
-    const token = await linkFromOutbox(admin, 'trainee6@glint.demo', '/reset')
+    const token = await linkFromOutbox(admin, p.email, '/reset')
     expect(token).toBeTruthy()
-    const old = await signedIn('trainee6@glint.demo')
+    const old = p.client
     expect((await new Client().post('/api/auth/reset', { token, password: 'qwertyuiop' })).status).toBe(400)
     expect((await new Client().post('/api/auth/reset', { token, password: 'a quiet grey morning' })).status).toBe(200)
     expect((await new Client().post('/api/auth/reset', { token, password: 'a second grey morning' })).status).toBe(400)
     expect((await old.get('/api/auth/me')).status).toBe(401)
-    await signedIn('trainee6@glint.demo', 'a quiet grey morning')
+    await signedIn(p.email, 'a quiet grey morning')
   })
 
   it('only an admin reads the outbox', async () => {

@@ -62,3 +62,24 @@ export async function linkFromOutbox(admin: Client, to: string, path: string) {
   const m = mail.text.match(new RegExp(`https?://\\S+${path}\\?token=([\\w-]+)`))
   return m ? m[1]! : null
 }
+
+let freshCount = 0
+
+// A new person made through the real invitation flow (admin invites, the link is accepted),
+// so tests that change or lock an account never spoil the shared demo accounts.
+export async function freshPerson(role: 'trainee' | 'instructor' | 'lead' | 'admin', crewId: string | null, password = 'a long enough test phrase') {
+  const admin = await signedIn('admin@glint.demo')
+  const email = `t${Date.now().toString(36)}-${++freshCount}-${role}@glint.test`
+  const inv = await admin.post('/api/invites', { email, role, crewId })
+  if (inv.status !== 201) throw new Error(`invite: ${inv.status} ${inv.text}`)
+  const token = await linkFromOutbox(admin, email, '/invite')
+  const c = new Client()
+  const r = await c.post('/api/invites/accept', { token, name: `Test ${role} ${freshCount}`, password })
+  if (r.status !== 201) throw new Error(`accept: ${r.status} ${r.text}`)
+  return { client: c, email, password, id: r.body.id as string }
+}
+
+export async function crewIdOf(email: string, index = 0) {
+  const c = await signedIn(email)
+  return (await c.get('/api/auth/me')).body.crews[index].id as string
+}

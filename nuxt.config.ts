@@ -3,7 +3,7 @@
 const tag = process.env.GLINT_BUILD_TAG
 
 export default defineNuxtConfig({
-  modules: ['@nuxt/eslint', '@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils'],
+  modules: ['@nuxt/eslint', '@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@vite-pwa/nuxt'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -14,7 +14,10 @@ export default defineNuxtConfig({
         { name: 'description', content: 'Glint: recognition drill for lookouts and spotters.' },
         { name: 'theme-color', content: '#0f2a3d' },
       ],
-      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/glint-mark.svg' }],
+      link: [
+        { rel: 'icon', type: 'image/svg+xml', href: '/glint-mark.svg' },
+        { rel: 'apple-touch-icon', href: '/icons/apple-touch-icon.png' },
+      ],
     },
   },
   css: ['~/assets/css/main.css'],
@@ -39,6 +42,59 @@ export default defineNuxtConfig({
   },
   typescript: { strict: true },
   telemetry: false,
+  // Deck uploads (issue 3): bundle the render worker and its codecs' .wasm next to the built server.
+  hooks: {
+    'nitro:build:before': (nitro) => {
+      nitro.hooks.hook('compiled', async () => {
+        const { buildRenderWorker } = await import('./server/workers/build-worker')
+        await buildRenderWorker(nitro.options.output.serverDir)
+      })
+    },
+  },
   eslint: { config: { stylistic: true } },
+  // Installable app: manifest with the project's own icons; the service worker (Workbox) precaches
+  // the app shell and fonts, keeps visited pages for a connection that comes and goes, and keeps
+  // the watch's images once fetched (the watch itself is stored in IndexedDB by the page).
+  pwa: {
+    registerType: 'autoUpdate',
+    injectRegister: false,
+    manifest: {
+      name: 'Glint: recognition drill',
+      short_name: 'Glint',
+      description: 'Recognition drill for lookouts and spotters.',
+      lang: 'en',
+      start_url: '/',
+      scope: '/',
+      display: 'standalone',
+      orientation: 'any',
+      theme_color: '#0f2a3d',
+      background_color: '#f7f9fa',
+      icons: [
+        { src: '/icons/icon-192.png', sizes: '192x192', type: 'image/png', purpose: 'any' },
+        { src: '/icons/icon-512.png', sizes: '512x512', type: 'image/png', purpose: 'any' },
+        { src: '/icons/maskable-192.png', sizes: '192x192', type: 'image/png', purpose: 'maskable' },
+        { src: '/icons/maskable-512.png', sizes: '512x512', type: 'image/png', purpose: 'maskable' },
+      ],
+    },
+    workbox: {
+      navigateFallback: null,
+      globPatterns: ['**/*.{js,css,woff2,woff,svg,png}'],
+      cleanupOutdatedCaches: true,
+      runtimeCaching: [
+        {
+          urlPattern: ({ request, url }) => request.mode === 'navigate' && !url.pathname.startsWith('/api/'),
+          handler: 'NetworkFirst',
+          options: { cacheName: 'glint-pages', networkTimeoutSeconds: 4, expiration: { maxEntries: 40 } },
+        },
+        {
+          urlPattern: ({ url }) => url.pathname.startsWith('/images/') || url.pathname.startsWith('/masks/'),
+          handler: 'CacheFirst',
+          options: { cacheName: 'glint-watch-images', expiration: { maxEntries: 1500, maxAgeSeconds: 60 * 60 * 24 * 30 } },
+        },
+      ],
+    },
+    client: { installPrompt: true },
+    devOptions: { enabled: false },
+  },
   tailwindcss: { cssPath: false, exposeConfig: false, viewer: false },
 })

@@ -1,0 +1,8 @@
+import { IdParam } from '#shared/schemas/params'
+
+// Scan drill results per member of the crew, for the leads' views beside recognition speed.
+export default defineEventHandler(async (event) => {
+  const { id } = await paramsInput(event, IdParam)
+  await requireCrewRole(event, id, 'lead', 'instructor')
+  return crewScanSummary(id)
+})

@@ -1,0 +1,9 @@
+import { IdParam } from '#shared/schemas/params'
+import { ScanDrillPatch } from '#shared/schemas/scan'
+
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'instructor', 'admin')
+  const { id } = await paramsInput(event, IdParam)
+  const patch = await readInput(event, ScanDrillPatch)
+  return updateScanDrill(actor, id, patch)
+})

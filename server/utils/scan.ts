@@ -1,0 +1,225 @@
+import { and, desc, eq, inArray } from 'drizzle-orm'
+import type { ScanDrillSettingsT, ScanPassBodyT } from '#shared/schemas/scan'
+import { median } from '#shared/utils/statistics'
+import { scoreScanPass } from '#shared/utils/scan-scene'
+import type { ScanPassSummary } from '#shared/utils/scan-scene'
+import type { Actor } from './gate'
+
+export interface ScanDrillView {
+  id: string
+  title: string
+  settings: ScanDrillSettingsT
+  crewIds: string[]
+  mine: boolean
+  createdAt: number
+  updatedAt: number
+}
+
+const noDrill = () => createError({ statusCode: 404, message: 'No such scan drill, or it is not assigned to your crews.' })
+
+function drillCrews(drillIds: string[]) {
+  if (!drillIds.length) return new Map<string, string[]>()
+  const rows = useDb().select().from(tables.scanDrillCrews).where(inArray(tables.scanDrillCrews.drillId, drillIds)).all()
+  const map = new Map<string, string[]>()
+  for (const r of rows) map.set(r.drillId, [...(map.get(r.drillId) ?? []), r.crewId])
+  return map
+}
+
+// Admins see every drill; everyone else the drills assigned to their crews, and instructors their own.
+export function listScanDrills(actor: Actor): ScanDrillView[] {
+  const db = useDb()
+  const admin = hasRole(actor, 'admin')
+  let rows = db.select().from(tables.scanDrills).orderBy(desc(tables.scanDrills.updatedAt)).all()
+  const crews = drillCrews(rows.map(r => r.id))
+  if (!admin) {
+    rows = rows.filter(r => (r.createdBy === actor.id && hasRole(actor, 'instructor'))
+      || (crews.get(r.id) ?? []).some(c => actor.crewIds.includes(c)))
+  }
+  return rows.map(r => ({
+    id: r.id,
+    title: r.title,
+    settings: r.settings as ScanDrillSettingsT,
+    // Only the crews the person may see.
+    crewIds: (crews.get(r.id) ?? []).filter(c => admin || actor.crewIds.includes(c)),
+    mine: r.createdBy === actor.id,
+    createdAt: r.createdAt,
+    updatedAt: r.updatedAt,
+  }))
+}
+
+export function visibleScanDrill(actor: Actor, id: string): ScanDrillView | null {
+  return listScanDrills(actor).find(d => d.id === id) ?? null
+}
+
+// A drill the actor may change: their own, or any for an admin.
+function ownScanDrill(actor: Actor, id: string) {
+  const drill = useDb().select().from(tables.scanDrills).where(eq(tables.scanDrills.id, id)).get()
+  const visible = drill && (hasRole(actor, 'admin') || drill.createdBy === actor.id || visibleScanDrill(actor, id))
+  if (!drill || !visible) throw noDrill()
+  if (!hasRole(actor, 'admin') && drill.createdBy !== actor.id) {
+    throw createError({ statusCode: 403, message: 'Only the instructor who made this drill (or an admin) can change it.' })
+  }
+  return drill
+}
+
+export function createScanDrill(actor: Actor, title: string, settings: ScanDrillSettingsT): ScanDrillView {
+  const id = newId()
+  useDb().insert(tables.scanDrills).values({ id, title, settings, createdBy: actor.id }).run()
+  audit(actor, 'scan-drill.create', 'scan_drill', id, { title })
+  return visibleScanDrill(actor, id)!
+}
+
+export function updateScanDrill(actor: Actor, id: string, patch: { title?: string, settings?: ScanDrillSettingsT }): ScanDrillView {
+  ownScanDrill(actor, id)
+  useDb().update(tables.scanDrills).set({ ...patch, updatedAt: Date.now() }).where(eq(tables.scanDrills.id, id)).run()
+  audit(actor, 'scan-drill.update', 'scan_drill', id, { fields: Object.keys(patch) })
+  return visibleScanDrill(actor, id)!
+}
+
+// Replaces the drill's crews among those the actor may assign (own crews; any for an admin);
+// assignments to crews outside them stay as they are.
+export function setScanDrillCrews(actor: Actor, id: string, crewIds: string[]): ScanDrillView {
+  ownScanDrill(actor, id)
+  const db = useDb()
+  const admin = hasRole(actor, 'admin')
+  const foreign = crewIds.filter(c => !admin && !actor.crewIds.includes(c))
+  if (foreign.length) throw createError({ statusCode: 403, message: 'You can assign a drill only to your own crews.' })
+  const known = crewIds.length
+    ? db.select({ id: tables.crews.id }).from(tables.crews).where(inArray(tables.crews.id, crewIds)).all().map(c => c.id)
+    : []
+  if (known.length !== crewIds.length) throw createError({ statusCode: 404, message: 'One of those crews does not exist.' })
+  db.transaction((tx) => {
+    const current = tx.select().from(tables.scanDrillCrews).where(eq(tables.scanDrillCrews.drillId, id)).all()
+    for (const row of current) {
+      if ((admin || actor.crewIds.includes(row.crewId)) && !crewIds.includes(row.crewId)) {
+        tx.delete(tables.scanDrillCrews).where(and(eq(tables.scanDrillCrews.drillId, id), eq(tables.scanDrillCrews.crewId, row.crewId))).run()
+      }
+    }
+    for (const crewId of crewIds) {
+      if (!current.some(r => r.crewId === crewId)) tx.insert(tables.scanDrillCrews).values({ drillId: id, crewId }).run()
+    }
+    tx.update(tables.scanDrills).set({ updatedAt: Date.now() }).where(eq(tables.scanDrills.id, id)).run()
+  })
+  audit(actor, 'scan-drill.crews', 'scan_drill', id, { crewIds })
+  return visibleScanDrill(actor, id)!
+}
+
+// Samples closer than this to the one kept before add nothing a person can do, and would let a
+// crafted pass make the stop search slow.
+const MIN_SAMPLE_SPACING_MS = 10
+
+function thinSamples(samples: ScanPassBodyT['samples']) {
+  const sorted = [...samples].sort((a, b) => a.tMs - b.tMs)
+  const kept: typeof sorted = []
+  sorted.forEach((s, i) => {
+    const last = kept[kept.length - 1]
+    if (!last || s.tMs - last.tMs >= MIN_SAMPLE_SPACING_MS || i === sorted.length - 1) kept.push(s)
+  })
+  return kept
+}
+
+export interface StoredScanPass {
+  id: string
+  userId: string
+  drillId: string | null
+  createdAt: number
+  coverage: number
+  contactsFound: number
+  contactsShown: number
+  score: ScanPassSummary & { settings: ScanDrillSettingsT, drillTitle: string | null }
+}
+
+/**
+ * Scores a pass on the server (any score the client sent is ignored) and stores it. A pass of an
+ * assigned drill is scored with the drill's saved settings; only its length may be shorter.
+ */
+export function recordScanPass(actor: Actor, body: ScanPassBodyT): StoredScanPass {
+  let settings = body.settings
+  let drillTitle: string | null = null
+  if (body.drillId) {
+    const drill = visibleScanDrill(actor, body.drillId)
+    if (!drill) throw noDrill()
+    settings = { ...drill.settings, lengthS: Math.min(drill.settings.lengthS, body.settings.lengthS) }
+    drillTitle = drill.title
+  }
+  // A pass may run a little over its length (the last report, the network); not minutes.
+  const limitMs = settings.lengthS * 1000 + 30_000
+  const late = body.samples.some(s => s.tMs > limitMs) || body.reports.some(r => r.reportedAtMs > limitMs)
+    || body.contacts.some(c => c.shownAtMs > limitMs)
+  if (late) throw createError({ statusCode: 400, message: `This pass runs past the drill's length of ${settings.lengthS} s.` })
+  const ids = new Set(body.contacts.map(c => c.id))
+  if (ids.size !== body.contacts.length) throw createError({ statusCode: 400, message: 'contacts: each contact needs its own id.' })
+
+  const summary = scoreScanPass({ config: settings, samples: thinSamples(body.samples), contacts: body.contacts, reports: body.reports })
+  const id = newId()
+  const score = { ...summary, settings, drillTitle }
+  const createdAt = Date.now()
+  useDb().insert(tables.scanPasses).values({
+    id,
+    userId: actor.id,
+    drillId: body.drillId ?? null,
+    score,
+    coverage: summary.coverage,
+    contactsFound: summary.contactsFound,
+    contactsShown: summary.contactsShown,
+    createdAt,
+  }).run()
+  return { id, userId: actor.id, drillId: body.drillId ?? null, createdAt, coverage: summary.coverage, contactsFound: summary.contactsFound, contactsShown: summary.contactsShown, score: score as StoredScanPass['score'] }
+}
+
+export function listScanPasses(userId: string, limit = 50): StoredScanPass[] {
+  return useDb().select().from(tables.scanPasses).where(eq(tables.scanPasses.userId, userId))
+    .orderBy(desc(tables.scanPasses.createdAt)).limit(limit).all()
+    .map(p => ({ ...p, score: p.score as unknown as StoredScanPass['score'] }))
+}
+
+export interface CrewScanRow {
+  userId: string
+  name: string
+  passes: number
+  latest: { at: number, coverage: number, gaps: number, sweeping: boolean, contactsFound: number, contactsShown: number } | null
+  medianCoverage: number | null
+  medianGaps: number | null
+  sweepingShare: number | null
+  contactsFoundShare: number | null
+  medianDetectMs: number | null
+}
+
+// Per member of the crew: the latest pass and the medians over all their passes.
+export function crewScanSummary(crewId: string): CrewScanRow[] {
+  const db = useDb()
+  const members = db.select({ id: tables.users.id, name: tables.users.name })
+    .from(tables.memberships).innerJoin(tables.users, eq(tables.users.id, tables.memberships.userId))
+    .where(eq(tables.memberships.crewId, crewId)).orderBy(tables.users.name).all()
+  if (!members.length) return []
+  const passes = db.select().from(tables.scanPasses).where(inArray(tables.scanPasses.userId, members.map(m => m.id)))
+    .orderBy(desc(tables.scanPasses.createdAt)).all()
+  return members.map((m) => {
+    const own = passes.filter(p => p.userId === m.id)
+    const scores = own.map(p => p.score as unknown as ScanPassSummary)
+    const shown = own.reduce((n, p) => n + p.contactsShown, 0)
+    const found = own.reduce((n, p) => n + p.contactsFound, 0)
+    const detects = scores.flatMap(s => s.contacts.filter(c => c.found && c.detectMs !== null).map(c => c.detectMs!))
+    const first = own[0]
+    return {
+      userId: m.id,
+      name: m.name,
+      passes: own.length,
+      latest: first
+        ? {
+            at: first.createdAt,
+            coverage: first.coverage,
+            gaps: scores[0]!.gaps.length,
+            sweeping: scores[0]!.sweeping,
+            contactsFound: first.contactsFound,
+            contactsShown: first.contactsShown,
+          }
+        : null,
+      medianCoverage: own.length ? median(own.map(p => p.coverage)) : null,
+      medianGaps: own.length ? median(scores.map(s => s.gaps.length)) : null,
+      sweepingShare: own.length ? scores.filter(s => s.sweeping).length / own.length : null,
+      contactsFoundShare: shown ? found / shown : null,
+      medianDetectMs: detects.length ? median(detects) : null,
+    }
+  })
+}

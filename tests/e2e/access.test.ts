@@ -1,29 +1,9 @@
 // The authorisation matrix: every route under server/api x each role x own crew / other crew.
-import { readdirSync, statSync } from 'node:fs'
-import { join, relative } from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client, signedIn } from '../support/client'
+import { routeFiles, routeKey } from '../support/hostile-corpus'
 import { MATRIX } from './access-matrix'
 import type { Expect } from './access-matrix'
-
-function routeFiles(dir: string): string[] {
-  return readdirSync(dir).flatMap((f) => {
-    const p = join(dir, f)
-    return statSync(p).isDirectory() ? routeFiles(p) : [p]
-  })
-}
-
-// server/api/crews/[id]/members/[userId].delete.ts -> DELETE /api/crews/:crew/members/:user
-export function routeKey(file: string) {
-  const rel = relative('server', file).replace(/\\/g, '/').replace(/\.ts$/, '')
-  const m = rel.match(/^(.*?)(?:\.(get|post|patch|put|delete))?$/)!
-  const method = (m[2] ?? 'get').toUpperCase()
-  // A parameter is named by the folder before it: crews/[id] -> :crew, users/[id] -> :user.
-  const path = `/${m[1]!}`.replace(/\/index$/, '')
-    .replace(/([\w-]+)s\/\[id\]/g, (_, kind: string) => `${kind}s/:${kind}`)
-    .replace(/\[(\w+?)Id\]/g, (_, kind: string) => `:${kind}`)
-  return `${method} ${path}`
-}
 
 const ROLES = ['trainee', 'instructor', 'lead', 'admin'] as const
 const PEOPLE = { trainee: 'trainee@glint.demo', instructor: 'instructor@glint.demo', lead: 'lead@glint.demo', admin: 'admin@glint.demo' }
@@ -41,8 +21,7 @@ function check(status: number, expected: Expect, label: string) {
 }
 
 describe('authorisation matrix', () => {
-  const files = routeFiles('server/api').filter(f => f.endsWith('.ts'))
-  const keys = files.map(routeKey)
+  const keys = routeFiles('server/api').map(routeKey)
   let ownCrew = ''
   let otherCrew = ''
 

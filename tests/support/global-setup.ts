@@ -1,11 +1,11 @@
 // Starts the built server on a fresh SQLite file with the demo seed, for the e2e and browser projects.
 import { execFileSync, spawn } from 'node:child_process'
+import { createHash, randomBytes } from 'node:crypto'
 import type { ChildProcess } from 'node:child_process'
-import { randomBytes } from 'node:crypto'
-import { existsSync, mkdtempSync, rmSync } from 'node:fs'
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { join, relative, resolve } from 'node:path'
 import type { TestProject } from 'vitest/node'
 
 declare module 'vitest' {
@@ -60,13 +60,55 @@ export function testEnv(dir: string, port: number): Record<string, string> {
   }
 }
 
+function filesUnder(dir: string): string[] {
+  if (!existsSync(dir)) return []
+  return readdirSync(dir).flatMap((f) => {
+    const p = join(dir, f)
+    return statSync(p).isDirectory() ? filesUnder(p) : [p]
+  })
+}
+
+// The seeded demo (people, decks with their renderings, history) depends only on these sources:
+// seed it once into tests/.tmp/seed-<hash>/ and give each run a copy.
+function seededTemplate() {
+  const sources = ['server/seed', 'server/scripts/seed.ts', 'server/core', 'server/database', 'shared', 'drizzle']
+    .flatMap(p => statSync(p).isDirectory() ? filesUnder(p) : [p]).sort()
+  const hash = createHash('sha256')
+  for (const f of sources) hash.update(relative('.', f)).update(readFileSync(f))
+  const dir = resolve('tests/.tmp', `seed-${hash.digest('hex').slice(0, 16)}`)
+  if (!existsSync(join(dir, 'glint.sqlite'))) {
+    const work = `${dir}.work-${process.pid}`
+    rmSync(work, { recursive: true, force: true })
+    mkdirSync(work, { recursive: true })
+    const env = { ...testEnv(work, 0), NUXT_DATABASE_PATH: join(work, 'glint.sqlite'), NUXT_UPLOADS_DIR: join(work, 'uploads') }
+    execFileSync(process.execPath, [resolve('node_modules/tsx/dist/cli.mjs'), 'server/scripts/seed.ts'], { env, stdio: 'inherit' })
+    // Fold the WAL into the main file so a plain copy is complete.
+    execFileSync(process.execPath, ['-e', `const D=require('better-sqlite3');const d=new D(${JSON.stringify(join(work, 'glint.sqlite'))});d.pragma('wal_checkpoint(TRUNCATE)');d.close()`])
+    try {
+      renameSync(work, dir)
+    }
+    catch {
+      rmSync(work, { recursive: true, force: true }) // another run finished it first
+    }
+  }
+  return dir
+}
+
+// A fresh copy of the seeded demo in `dir` (glint.sqlite and uploads/).
+export function seedInto(dir: string) {
+  const template = seededTemplate()
+  cpSync(join(template, 'glint.sqlite'), join(dir, 'glint.sqlite'))
+  if (existsSync(join(template, 'uploads'))) cpSync(join(template, 'uploads'), join(dir, 'uploads'), { recursive: true })
+  else mkdirSync(join(dir, 'uploads'), { recursive: true })
+}
+
 export default async function setup(project: TestProject) {
   const entry = outputEntry()
   if (!existsSync(entry)) throw new Error(`no built server at ${entry}: run npm run build first`)
   const dir = mkdtempSync(join(tmpdir(), 'glint-test-'))
   const port = await freePort()
   const env = testEnv(dir, port)
-  execFileSync(process.execPath, [resolve('node_modules/tsx/dist/cli.mjs'), 'server/scripts/seed.ts'], { env, stdio: 'inherit' })
+  seedInto(dir)
   const child = spawn(process.execPath, [entry], { env, stdio: ['ignore', 'inherit', 'inherit'] })
   const baseUrl = `http://127.0.0.1:${port}`
   await waitForHealth(baseUrl, child)

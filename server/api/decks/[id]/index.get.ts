@@ -1,0 +1,7 @@
+import { IdParam } from '#shared/schemas/params'
+
+export default defineEventHandler(async (event) => {
+  const { id } = await paramsInput(event, IdParam)
+  const { deck } = await requireVisibleDeck(event, id)
+  return deckDetail(deck)
+})

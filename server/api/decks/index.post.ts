@@ -1,0 +1,10 @@
+import { DeckBody } from '#shared/schemas/decks'
+
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'instructor')
+  const body = await readInput(event, DeckBody)
+  const id = createDeck(actor, body)
+  audit(actor, 'deck.create', 'deck', id, { title: body.title })
+  setResponseStatus(event, 201)
+  return { id }
+})

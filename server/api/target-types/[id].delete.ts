@@ -1,0 +1,8 @@
+import { IdParam } from '#shared/schemas/params'
+
+export default defineEventHandler(async (event) => {
+  const { id } = await paramsInput(event, IdParam)
+  const { actor, type } = await requireOwnTargetType(event, id)
+  await deleteTargetType(actor, type)
+  return { ok: true }
+})

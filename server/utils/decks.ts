@@ -1,0 +1,411 @@
+// Decks, target types and views: who may see and change them, and their database work.
+import type { H3Event } from 'h3'
+import { and, asc, eq, inArray, or } from 'drizzle-orm'
+import { ASPECTS, CONDITIONS } from '#shared/utils/conditions'
+import { featuresProblem } from '#shared/schemas/decks'
+import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
+import type { Actor } from './gate'
+
+type DeckRow = typeof tables.decks.$inferSelect
+type TypeRow = typeof tables.targetTypes.$inferSelect
+
+const notFound = () => createError({ statusCode: 404, message: 'No such deck, or it is not shared with your crews.' })
+const conflict = (message: string) => createError({ statusCode: 409, message })
+const bad = (message: string) => createError({ statusCode: 400, message })
+
+export function deckSettings(d: DeckRow): DeckSettings {
+  return {
+    hesitationMs: d.hesitationMs,
+    windowMs: d.windowMs,
+    newPerDay: d.newPerDay,
+    retention: d.retention,
+    choiceCount: d.choiceCount,
+    answerMode: d.answerMode as DeckSettings['answerMode'],
+    minExposureMs: d.minExposureMs,
+  }
+}
+
+export function renderUrl(file: string) {
+  return `/images/${file}`
+}
+
+function crewsOfDeck(deckId: string) {
+  return useDb().select({ crewId: tables.deckCrews.crewId }).from(tables.deckCrews)
+    .where(eq(tables.deckCrews.deckId, deckId)).all().map(r => r.crewId)
+}
+
+// Admin: every deck. Owner: its own in any state. Instructors: decks of their crews once they
+// leave draft. Trainees and leads: published decks of their crews.
+export function canSeeDeck(actor: Actor, deck: DeckRow) {
+  if (hasRole(actor, 'admin') || deck.ownerId === actor.id) return true
+  if (deck.status === 'draft') return false
+  const shared = crewsOfDeck(deck.id).some(c => actor.crewIds.includes(c))
+  if (!shared) return false
+  if (deck.status === 'published') return true
+  return hasRole(actor, 'instructor')
+}
+
+/** The deck if the actor may see it, else 404 (another crew's deck is never confirmed to exist). */
+export async function requireVisibleDeck(event: H3Event, deckId: string): Promise<{ actor: Actor, deck: DeckRow }> {
+  const actor = await requireActor(event)
+  const deck = useDb().select().from(tables.decks).where(eq(tables.decks.id, deckId)).get()
+  if (!deck || !canSeeDeck(actor, deck)) throw notFound()
+  return { actor, deck }
+}
+
+/** The deck if the actor is its owner (an instructor), else 403, or 404 when they cannot see it. */
+export async function requireOwnDeck(event: H3Event, deckId: string): Promise<{ actor: Actor, deck: DeckRow }> {
+  await requireRole(event, 'instructor')
+  const found = await requireVisibleDeck(event, deckId)
+  if (found.deck.ownerId !== found.actor.id) throw createError({ statusCode: 403, message: 'Only the instructor who owns this deck can change it.' })
+  return found
+}
+
+/** A target type and its deck, if the actor owns the deck. */
+export async function requireOwnTargetType(event: H3Event, typeId: string): Promise<{ actor: Actor, deck: DeckRow, type: TypeRow }> {
+  await requireRole(event, 'instructor')
+  const type = useDb().select().from(tables.targetTypes).where(eq(tables.targetTypes.id, typeId)).get()
+  if (!type) throw createError({ statusCode: 404, message: 'No such target type.' })
+  const { actor, deck } = await requireOwnDeck(event, type.deckId).catch((e) => {
+    if (e.statusCode === 404) throw createError({ statusCode: 404, message: 'No such target type.' })
+    throw e
+  })
+  return { actor, deck, type }
+}
+
+// ---------------------------------------------------------------- reading
+
+export function listDecks(actor: Actor) {
+  const db = useDb()
+  const all = db.select().from(tables.decks).orderBy(asc(tables.decks.title)).all()
+  const links = db.select().from(tables.deckCrews).all()
+  const crewsByDeck = new Map<string, string[]>()
+  for (const l of links) crewsByDeck.set(l.deckId, [...(crewsByDeck.get(l.deckId) ?? []), l.crewId])
+  return all.filter((d) => {
+    if (hasRole(actor, 'admin') || d.ownerId === actor.id) return true
+    if (d.status === 'draft' || !(crewsByDeck.get(d.id) ?? []).some(c => actor.crewIds.includes(c))) return false
+    return d.status === 'published' || hasRole(actor, 'instructor')
+  })
+}
+
+function byAspect(a: string, b: string) {
+  return ASPECTS.indexOf(a as typeof ASPECTS[number]) - ASPECTS.indexOf(b as typeof ASPECTS[number])
+}
+
+function byCondition(a: string, b: string) {
+  return CONDITIONS.indexOf(a as typeof CONDITIONS[number]) - CONDITIONS.indexOf(b as typeof CONDITIONS[number])
+}
+
+function typesWithViews(deckId: string) {
+  const db = useDb()
+  const types = db.select().from(tables.targetTypes).where(eq(tables.targetTypes.deckId, deckId)).orderBy(asc(tables.targetTypes.name)).all()
+  const typeIds = types.map(t => t.id)
+  const views = typeIds.length
+    ? db.select().from(tables.views).where(inArray(tables.views.targetTypeId, typeIds)).orderBy(asc(tables.views.createdAt)).all()
+    : []
+  const viewIds = views.map(v => v.id)
+  const variants = viewIds.length ? db.select().from(tables.variants).where(inArray(tables.variants.viewId, viewIds)).all() : []
+  const pairs = typeIds.length ? db.select().from(tables.lookAlikes).where(inArray(tables.lookAlikes.typeId, typeIds)).all() : []
+  return types.map(type => ({
+    type,
+    lookAlikes: pairs.filter(p => p.typeId === type.id).map(p => p.otherId),
+    views: views.filter(v => v.targetTypeId === type.id).sort((a, b) => byAspect(a.aspect, b.aspect))
+      .map(view => ({
+        view,
+        variants: variants.filter(x => x.viewId === view.id).sort((a, b) => byCondition(a.condition, b.condition) || a.width - b.width),
+      })),
+  }))
+}
+
+/** GET /api/decks/[id], exactly as api.md writes it. */
+export function deckDetail(deck: DeckRow) {
+  return {
+    id: deck.id,
+    title: deck.title,
+    settings: deckSettings(deck),
+    targetTypes: typesWithViews(deck.id).map(({ type, views }) => ({
+      id: type.id,
+      name: type.name,
+      category: type.category,
+      affiliation: type.affiliation,
+      sizeM: type.sizeM,
+      views: views.map(({ view, variants }) => ({
+        id: view.id,
+        aspect: view.aspect,
+        variants: variants.map(v => ({ condition: v.condition, width: v.width, url: renderUrl(v.file) })),
+      })),
+    })),
+  }
+}
+
+/** Everything the deck builder edits, for the deck's owner. */
+export function deckBuilderDetail(deck: DeckRow): BuilderDeck {
+  const db = useDb()
+  const crews = db.select({ id: tables.crews.id, name: tables.crews.name }).from(tables.deckCrews)
+    .innerJoin(tables.crews, eq(tables.crews.id, tables.deckCrews.crewId))
+    .where(eq(tables.deckCrews.deckId, deck.id)).orderBy(asc(tables.crews.name)).all()
+  return {
+    id: deck.id,
+    title: deck.title,
+    description: deck.description,
+    category: deck.category as BuilderDeck['category'],
+    status: deck.status as BuilderDeck['status'],
+    settings: deckSettings(deck),
+    drilled: deckDrilled(deck.id),
+    crews,
+    targetTypes: typesWithViews(deck.id).map(({ type, lookAlikes, views }) => ({
+      id: type.id,
+      name: type.name,
+      category: type.category as TypeCategory,
+      affiliation: type.affiliation as BuilderDeck['targetTypes'][number]['affiliation'],
+      sizeM: type.sizeM,
+      features: type.features,
+      lookAlikes,
+      views: views.map(({ view, variants }) => ({
+        id: view.id,
+        aspect: view.aspect,
+        width: view.width,
+        height: view.height,
+        variants: variants.map(v => ({ condition: v.condition, width: v.width, height: v.height, bytes: v.bytes, contrast: v.contrast, url: renderUrl(v.file) })),
+      })),
+    })),
+  }
+}
+
+/** The decks an instructor builds, with what the list of the builder shows. */
+export function builderList(actor: Actor) {
+  const db = useDb()
+  const decks = db.select().from(tables.decks).where(eq(tables.decks.ownerId, actor.id)).orderBy(asc(tables.decks.title)).all()
+  const ids = decks.map(d => d.id)
+  const types = ids.length ? db.select({ deckId: tables.targetTypes.deckId, id: tables.targetTypes.id }).from(tables.targetTypes).where(inArray(tables.targetTypes.deckId, ids)).all() : []
+  const crews = ids.length
+    ? db.select({ deckId: tables.deckCrews.deckId, name: tables.crews.name }).from(tables.deckCrews)
+        .innerJoin(tables.crews, eq(tables.crews.id, tables.deckCrews.crewId)).where(inArray(tables.deckCrews.deckId, ids)).all()
+    : []
+  return decks.map(d => ({
+    id: d.id,
+    title: d.title,
+    category: d.category,
+    status: d.status,
+    targetTypes: types.filter(t => t.deckId === d.id).length,
+    crews: crews.filter(c => c.deckId === d.id).map(c => c.name).sort(),
+  }))
+}
+
+// ---------------------------------------------------------------- decks
+
+export function deckDrilled(deckId: string) {
+  const db = useDb()
+  return !!(db.select({ id: tables.watches.id }).from(tables.watches).where(eq(tables.watches.deckId, deckId)).get()
+    || db.select({ id: tables.tracks.id }).from(tables.tracks).where(eq(tables.tracks.deckId, deckId)).get()
+    || db.select({ id: tables.calls.id }).from(tables.calls).where(eq(tables.calls.deckId, deckId)).get()
+    || db.select({ id: tables.checks.id }).from(tables.checks).where(eq(tables.checks.deckId, deckId)).get())
+}
+
+function checkSettings(s: DeckSettings) {
+  if (s.hesitationMs >= s.windowMs) throw bad('settings.hesitationMs: The hesitation limit must be shorter than the answer window.')
+}
+
+export function createDeck(actor: Actor, body: { title: string, description?: string, category: string, settings?: DeckSettingsPatch }) {
+  const id = newId()
+  const defaults: DeckSettings = { hesitationMs: 1500, windowMs: 5000, newPerDay: 10, retention: 0.9, choiceCount: 4, answerMode: 'choices', minExposureMs: 200 }
+  const settings = { ...defaults, ...body.settings }
+  checkSettings(settings)
+  useDb().insert(tables.decks).values({ id, title: body.title, description: body.description ?? '', category: body.category, ownerId: actor.id, ...settings }).run()
+  return id
+}
+
+// What publishing needs: something to drill, and distractors to choose from.
+function publishProblem(deckId: string): string | null {
+  const withViews = typesWithViews(deckId).filter(t => t.views.length > 0)
+  if (withViews.length < 2) return 'Add at least two target types with an uploaded view each before publishing.'
+  return null
+}
+
+export function patchDeck(actor: Actor, deck: DeckRow, patch: DeckPatch) {
+  const settings = { ...deckSettings(deck), ...patch.settings }
+  checkSettings(settings)
+  if (patch.category && patch.category !== 'mixed' && patch.category !== deck.category) {
+    const other = useDb().select({ id: tables.targetTypes.id }).from(tables.targetTypes)
+      .where(and(eq(tables.targetTypes.deckId, deck.id), inArray(tables.targetTypes.category, patch.category === 'aircraft' ? ['vessel'] : ['aircraft']))).get()
+    if (other) throw conflict(`This deck holds target types that are not ${patch.category}; make it mixed or remove them first.`)
+  }
+  if (patch.status === 'published' && deck.status !== 'published') {
+    const problem = publishProblem(deck.id)
+    if (problem) throw conflict(problem)
+  }
+  const { settings: _s, ...fields } = patch
+  useDb().update(tables.decks).set({ ...fields, ...settings, updatedAt: Date.now() }).where(eq(tables.decks.id, deck.id)).run()
+  audit(actor, 'deck.update', 'deck', deck.id, patch)
+}
+
+export async function deleteDeck(actor: Actor, deck: DeckRow) {
+  if (deckDrilled(deck.id)) throw conflict('This deck has been drilled, so its history must stay: archive it instead.')
+  const db = useDb()
+  const files = filesOf(db.select({ id: tables.targetTypes.id }).from(tables.targetTypes).where(eq(tables.targetTypes.deckId, deck.id)).all().map(t => t.id))
+  db.transaction((tx) => {
+    tx.delete(tables.jobs).where(eq(tables.jobs.deckId, deck.id)).run()
+    tx.delete(tables.decks).where(eq(tables.decks.id, deck.id)).run()
+  })
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
+  audit(actor, 'deck.delete', 'deck', deck.id, { title: deck.title })
+}
+
+// Instructors assign a deck to crews they belong to; admins to any crew. Assignments to crews
+// the instructor is not in are kept as they are.
+export function setDeckCrews(actor: Actor, deck: DeckRow, crewIds: string[]) {
+  const db = useDb()
+  const wanted = [...new Set(crewIds)]
+  const known = wanted.length ? db.select({ id: tables.crews.id }).from(tables.crews).where(inArray(tables.crews.id, wanted)).all().map(c => c.id) : []
+  const unknown = wanted.find(c => !known.includes(c))
+  const admin = hasRole(actor, 'admin')
+  if (unknown && admin) throw createError({ statusCode: 404, message: 'No such crew.' })
+  const foreign = wanted.find(c => !admin && !actor.crewIds.includes(c))
+  if (foreign) throw createError({ statusCode: 403, message: 'You can assign a deck only to crews you belong to.' })
+  const current = crewsOfDeck(deck.id)
+  db.transaction((tx) => {
+    for (const c of current) {
+      if ((admin || actor.crewIds.includes(c)) && !wanted.includes(c)) {
+        tx.delete(tables.deckCrews).where(and(eq(tables.deckCrews.deckId, deck.id), eq(tables.deckCrews.crewId, c))).run()
+      }
+    }
+    for (const c of wanted) {
+      if (!current.includes(c)) tx.insert(tables.deckCrews).values({ deckId: deck.id, crewId: c }).run()
+    }
+  })
+  audit(actor, 'deck.crews', 'deck', deck.id, { crewIds: wanted })
+  return crewsOfDeck(deck.id)
+}
+
+// ---------------------------------------------------------------- target types
+
+function typeCategoryFor(deck: DeckRow, wanted: TypeCategory | undefined): TypeCategory {
+  if (deck.category === 'mixed') {
+    if (!wanted) throw bad('category: Choose aircraft or vessel for a target type of a mixed deck.')
+    return wanted
+  }
+  if (wanted && wanted !== deck.category) throw bad(`category: This is a deck of ${deck.category}; add only ${deck.category} target types.`)
+  return deck.category as TypeCategory
+}
+
+function cleanFeatures(category: TypeCategory, features: Record<string, string>) {
+  const problem = featuresProblem(category, features)
+  if (problem) throw bad(problem)
+  return Object.fromEntries(Object.entries(features).map(([k, v]) => [k, v.trim()]).filter(([, v]) => v))
+}
+
+function checkLookAlikes(deckId: string, typeId: string, ids: string[]) {
+  const unique = [...new Set(ids)]
+  if (unique.includes(typeId)) throw bad('lookAlikes: A target type cannot be its own look-alike.')
+  if (!unique.length) return unique
+  const found = useDb().select({ id: tables.targetTypes.id }).from(tables.targetTypes)
+    .where(and(eq(tables.targetTypes.deckId, deckId), inArray(tables.targetTypes.id, unique))).all()
+  if (found.length !== unique.length) throw bad('lookAlikes: Choose look-alikes among the target types of this deck.')
+  return unique
+}
+
+type Tx = Parameters<Parameters<ReturnType<typeof useDb>['transaction']>[0]>[0]
+
+// Look-alikes are symmetric: each pair is stored both ways.
+function writeLookAlikes(tx: Tx, typeId: string, ids: string[]) {
+  tx.delete(tables.lookAlikes).where(or(eq(tables.lookAlikes.typeId, typeId), eq(tables.lookAlikes.otherId, typeId))).run()
+  for (const other of ids) {
+    tx.insert(tables.lookAlikes).values({ typeId, otherId: other }).onConflictDoNothing().run()
+    tx.insert(tables.lookAlikes).values({ typeId: other, otherId: typeId }).onConflictDoNothing().run()
+  }
+}
+
+function uniqueName(e: unknown): never {
+  if (String(e).includes('UNIQUE')) throw conflict('A target type of that name is already in this deck.')
+  throw e
+}
+
+export function createTargetType(actor: Actor, deck: DeckRow, body: TargetTypeBody) {
+  const category = typeCategoryFor(deck, body.category)
+  const features = cleanFeatures(category, body.features ?? {})
+  const id = newId()
+  const lookAlikes = checkLookAlikes(deck.id, id, body.lookAlikes ?? [])
+  try {
+    useDb().transaction((tx) => {
+      tx.insert(tables.targetTypes).values({ id, deckId: deck.id, name: body.name, category, affiliation: body.affiliation, sizeM: body.sizeM, features }).run()
+      writeLookAlikes(tx, id, lookAlikes)
+    })
+  }
+  catch (e) { uniqueName(e) }
+  audit(actor, 'target-type.create', 'target_type', id, { deckId: deck.id, name: body.name })
+  return id
+}
+
+export function patchTargetType(actor: Actor, deck: DeckRow, type: TypeRow, patch: TargetTypePatch) {
+  const category = patch.category ? typeCategoryFor(deck, patch.category) : type.category as TypeCategory
+  const features = cleanFeatures(category, patch.features ?? (category === type.category ? type.features : {}))
+  const lookAlikes = patch.lookAlikes ? checkLookAlikes(deck.id, type.id, patch.lookAlikes) : null
+  const { lookAlikes: _l, ...fields } = patch
+  try {
+    useDb().transaction((tx) => {
+      tx.update(tables.targetTypes).set({ ...fields, category, features, updatedAt: Date.now() }).where(eq(tables.targetTypes.id, type.id)).run()
+      if (lookAlikes) writeLookAlikes(tx, type.id, lookAlikes)
+    })
+  }
+  catch (e) { uniqueName(e) }
+  audit(actor, 'target-type.update', 'target_type', type.id, { ...patch })
+}
+
+function typeDrilled(typeId: string) {
+  const db = useDb()
+  return !!(db.select({ id: tables.tracks.id }).from(tables.tracks).where(eq(tables.tracks.targetTypeId, typeId)).get()
+    || db.select({ id: tables.sightings.id }).from(tables.sightings).where(eq(tables.sightings.targetTypeId, typeId)).get()
+    || db.select({ id: tables.calls.id }).from(tables.calls).where(eq(tables.calls.targetTypeId, typeId)).get())
+}
+
+function filesOf(typeIds: string[], viewIds?: string[]) {
+  const db = useDb()
+  const views = viewIds ?? (typeIds.length ? db.select({ id: tables.views.id }).from(tables.views).where(inArray(tables.views.targetTypeId, typeIds)).all().map(v => v.id) : [])
+  if (!views.length) return []
+  return db.select({ file: tables.variants.file }).from(tables.variants).where(inArray(tables.variants.viewId, views)).all().map(v => v.file)
+}
+
+export async function deleteTargetType(actor: Actor, type: TypeRow) {
+  if (typeDrilled(type.id)) throw conflict('This target type has been drilled, so its history must stay. Archive the deck instead.')
+  const files = filesOf([type.id])
+  useDb().delete(tables.targetTypes).where(eq(tables.targetTypes.id, type.id)).run()
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
+  audit(actor, 'target-type.delete', 'target_type', type.id, { name: type.name })
+}
+
+// ---------------------------------------------------------------- views
+
+export async function requireOwnView(event: H3Event, viewId: string) {
+  const view = useDb().select().from(tables.views).where(eq(tables.views.id, viewId)).get()
+  if (!view) {
+    await requireRole(event, 'instructor')
+    throw createError({ statusCode: 404, message: 'No such view.' })
+  }
+  const found = await requireOwnTargetType(event, view.targetTypeId).catch((e) => {
+    if (e.statusCode === 404) throw createError({ statusCode: 404, message: 'No such view.' })
+    throw e
+  })
+  return { ...found, view }
+}
+
+export async function deleteView(actor: Actor, viewId: string) {
+  const db = useDb()
+  const files = filesOf([], [viewId])
+  const used = db.select({ id: tables.sightings.id }).from(tables.sightings)
+    .innerJoin(tables.variants, eq(tables.variants.id, tables.sightings.variantId))
+    .where(eq(tables.variants.viewId, viewId)).get()
+  if (used) throw conflict('This view has been shown in watches, so it stays with their history.')
+  db.delete(tables.views).where(eq(tables.views.id, viewId)).run()
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
+  audit(actor, 'view.delete', 'view', viewId)
+}
+
+/** May the actor see a deck that uses this rendering? */
+export function fileVisibleTo(actor: Actor, file: string) {
+  const row = useDb().select({ deck: tables.decks }).from(tables.variants)
+    .innerJoin(tables.views, eq(tables.views.id, tables.variants.viewId))
+    .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.views.targetTypeId))
+    .innerJoin(tables.decks, eq(tables.decks.id, tables.targetTypes.deckId))
+    .where(eq(tables.variants.file, file)).get()
+  return !!row && canSeeDeck(actor, row.deck)
+}

@@ -1,0 +1,88 @@
+// The worker pool (piscina) that decodes and renders uploads off the request thread, with a
+// memory bound per worker thread and a time bound per task.
+import { existsSync } from 'node:fs'
+import { availableParallelism } from 'node:os'
+import { dirname, join, resolve } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { MessageChannel } from 'node:worker_threads'
+import { Piscina } from 'piscina'
+import type { Backdrop } from '../core/imaging/render'
+import type { RenderResult, RenderTask } from '../workers/render-worker'
+
+export const RENDER_TIMEOUT_MS = 20_000
+// V8 heap bound of each worker thread; the pixel limit checked before decoding (sniff.ts)
+// bounds the decoded buffers, which live outside this heap.
+export const WORKER_HEAP_MB = 192
+
+let pool: Piscina<RenderTask, RenderResult> | undefined
+
+// The built server carries workers/render-worker.mjs beside its chunks (build-worker.ts);
+// from the sources (nuxt dev, tests) the TypeScript worker runs through tsx.
+function workerFile(): { filename: string, execArgv: string[] } {
+  if (process.env.GLINT_RENDER_WORKER) return { filename: resolve(process.env.GLINT_RENDER_WORKER), execArgv: [] }
+  let dir = dirname(fileURLToPath(import.meta.url))
+  for (let i = 0; i < 4; i++) {
+    const built = join(dir, 'workers', 'render-worker.mjs')
+    if (existsSync(built)) return { filename: built, execArgv: [] }
+    dir = dirname(dir)
+  }
+  return { filename: resolve('server/workers/render-worker.ts'), execArgv: ['--import', 'tsx'] }
+}
+
+export function renderThreads() {
+  const wanted = Number(process.env.GLINT_RENDER_THREADS)
+  return Number.isInteger(wanted) && wanted > 0 ? wanted : Math.max(1, Math.min(4, availableParallelism()))
+}
+
+export function renderPool() {
+  if (!pool) {
+    const { filename, execArgv } = workerFile()
+    const threads = renderThreads()
+    pool = new Piscina<RenderTask, RenderResult>({
+      filename,
+      execArgv,
+      minThreads: threads,
+      maxThreads: threads,
+      idleTimeout: 5 * 60_000,
+      maxQueue: 400,
+      resourceLimits: { maxOldGenerationSizeMb: WORKER_HEAP_MB, maxYoungGenerationSizeMb: 32, stackSizeMb: 4 },
+    })
+  }
+  return pool
+}
+
+export class RenderTimeout extends Error {
+  constructor() {
+    super(`Processing took longer than ${RENDER_TIMEOUT_MS / 1000} s, so it was stopped. The picture may be damaged or too complex; try a smaller one.`)
+    this.name = 'RenderTimeout'
+  }
+}
+
+/**
+ * Runs one upload through the pool. The time bound starts when a worker takes the task (not
+ * while it waits in the queue); on timeout the task is aborted and piscina ends its thread.
+ */
+export function renderInPool(bytes: Uint8Array, opts: { backdrop: Backdrop, seed: number, onStart?: () => void, onProgress?: (p: number) => void }): Promise<RenderResult> {
+  const { port1, port2 } = new MessageChannel()
+  const controller = new AbortController()
+  let timer: NodeJS.Timeout | undefined
+  let started = false
+  port1.on('message', (m: { progress?: number }) => {
+    if (!started) {
+      started = true
+      opts.onStart?.()
+      timer = setTimeout(() => controller.abort(new RenderTimeout()), RENDER_TIMEOUT_MS)
+    }
+    if (typeof m.progress === 'number') opts.onProgress?.(m.progress)
+  })
+  const copy = bytes.slice()
+  return renderPool().run({ bytes: copy, backdrop: opts.backdrop, seed: opts.seed, port: port2 }, { transferList: [port2, copy.buffer], signal: controller.signal })
+    .catch((e: unknown) => {
+      if (controller.signal.aborted) throw new RenderTimeout()
+      throw e
+    })
+    .finally(() => {
+      clearTimeout(timer)
+      port1.close()
+    })
+}

@@ -1,0 +1,34 @@
+// Bundles the render worker with esbuild next to the built server, with the codecs' .wasm files,
+// because Nitro bundles only what the server imports and a worker thread needs a file of its own.
+import { copyFile, mkdir } from 'node:fs/promises'
+import { createRequire } from 'node:module'
+import { basename, dirname, join, resolve } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { build } from 'esbuild'
+import { WASM_FILES } from '../core/imaging/codecs'
+
+const here = dirname(fileURLToPath(import.meta.url))
+
+/** Writes <serverDir>/workers/render-worker.mjs and <serverDir>/workers/wasm/*.wasm. */
+export async function buildRenderWorker(serverDir: string) {
+  const out = join(resolve(serverDir), 'workers')
+  await mkdir(join(out, 'wasm'), { recursive: true })
+  await build({
+    entryPoints: [join(here, 'render-worker.ts')],
+    outfile: join(out, 'render-worker.mjs'),
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    logLevel: 'warning',
+    // Bundled CommonJS helpers call require(); give the ES module one.
+    banner: { js: 'import { createRequire as __glintRequire } from \'node:module\'; const require = __glintRequire(import.meta.url);' },
+  })
+  const require = createRequire(import.meta.url)
+  for (const spec of Object.values(WASM_FILES)) {
+    const [scope, name, ...rest] = spec.split('/')
+    const packageDir = dirname(require.resolve(`${scope}/${name}/package.json`))
+    await copyFile(join(packageDir, ...rest), join(out, 'wasm', basename(spec)))
+  }
+  return join(out, 'render-worker.mjs')
+}

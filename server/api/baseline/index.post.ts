@@ -1,0 +1,10 @@
+import { BaselineBody } from '#shared/schemas/drill'
+
+// Stores a tap baseline: the person's own simple and choice reaction times on this device.
+export default defineEventHandler(async (event) => {
+  const actor = await requireActor(event)
+  const body = await readInput(event, BaselineBody)
+  const row = saveTapBaseline(actor.id, body)
+  setResponseStatus(event, 201)
+  return row
+})

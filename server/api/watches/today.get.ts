@@ -1,0 +1,5 @@
+// What each assigned deck holds for today (due, new, an open watch), read only.
+export default defineEventHandler(async (event) => {
+  const actor = await requireRole(event, 'trainee')
+  return watchToday(useSqlite(), actor.id)
+})

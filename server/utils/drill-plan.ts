@@ -1,0 +1,207 @@
+// Plans a watch from a deck's content and a trainee's tracks: the one function that decides
+// what a watch shows (queue, view, condition, range, exposure, choices). Pure apart from the
+// random sources it is given, so the server and the demo history seed run the same code.
+import { buildWatchQueue, insertReshow } from '../core/watch/queue'
+import type { QueueTrack } from '../core/watch/queue'
+import { planSighting } from '../core/watch/sighting-plan'
+import { makeChoiceIds, pickChoices } from '../core/watch/choices'
+import { seedFromString } from '../core/watch/rng'
+import type { Rng } from '../core/watch/rng'
+import type { TrackState } from '../core/scheduling/fsrs'
+import { isCondition } from '../../shared/utils/conditions'
+import { NEW_TRACK_MAX_EXPOSURE_MS } from '../../shared/utils/exposure'
+
+// Longest watch: a few minutes on a phone (common practice for short daily drills, no source).
+export const WATCH_MAX_SIGHTINGS = 30
+// A track comes back at most this many times in one watch after misses.
+export const MAX_RESHOWS_PER_TRACK = 2
+// Noise masks shipped under public/masks/ (scripts/make-masks.ts).
+export const MASK_COUNT = 8
+
+/** The noise mask of a sighting: picked from its (random) id, so it says nothing about the answer. */
+export function maskUrlFor(sightingId: string) {
+  return `/masks/noise-${seedFromString(sightingId) % MASK_COUNT}.webp`
+}
+
+// New tracks are introduced broadside first, the head-on and tail-on aspects last (common practice, no source).
+const ASPECT_ORDER = ['beam', 'plan', 'belly', 'bow-quarter', 'stern-quarter', 'head-on', 'tail-on']
+
+export interface ContentDeck {
+  id: string
+  title: string
+  category: string
+  hesitationMs: number
+  windowMs: number
+  newPerDay: number
+  retention: number
+  choiceCount: number
+  answerMode: string
+  minExposureMs: number
+}
+
+export interface ContentType {
+  id: string
+  name: string
+  category: string
+  sizeM: number
+  features: Record<string, string>
+}
+
+export interface ContentVariant { id: string, condition: string, file: string, width: number, height: number }
+export interface ContentView { id: string, targetTypeId: string, aspect: string, variants: ContentVariant[] }
+
+export interface DeckContent {
+  deck: ContentDeck
+  types: ContentType[]
+  views: ContentView[]
+  lookAlikes: Map<string, Set<string>>
+}
+
+export interface PlannedChoice { id: string, label: string, typeId: string }
+
+export interface PlannedSighting {
+  trackId: string
+  targetTypeId: string
+  aspect: string
+  variantId: string
+  file: string
+  width: number
+  height: number
+  condition: string
+  rangeM: number
+  binoculars: boolean
+  apparentPx: number
+  exposureMs: number
+  untilCall: boolean
+  windowMs: number
+  choices: PlannedChoice[]
+  answerChoiceId: string
+}
+
+export interface PlanTrack extends QueueTrack { state: TrackState }
+
+export interface PlanContext {
+  content: DeckContent
+  // this crew's calls: shown type -> called type -> count
+  confusions: ReadonlyMap<string, ReadonlyMap<string, number>>
+  rng: Rng
+  randomBytes: (size: number) => Uint8Array
+}
+
+export function viewsWithRenderings(content: DeckContent): ContentView[] {
+  return content.views.filter(v => v.variants.some(x => isCondition(x.condition)))
+}
+
+/** The (target type, aspect) pairs that can be drilled: those with a rendered view. */
+export function drillableKeys(content: DeckContent): { targetTypeId: string, aspect: string }[] {
+  const typeOrder = new Map(content.types.map((t, i) => [t.id, i]))
+  const seen = new Set<string>()
+  const out: { targetTypeId: string, aspect: string }[] = []
+  for (const v of viewsWithRenderings(content)) {
+    const key = `${v.targetTypeId}|${v.aspect}`
+    if (seen.has(key) || !typeOrder.has(v.targetTypeId)) continue
+    seen.add(key)
+    out.push({ targetTypeId: v.targetTypeId, aspect: v.aspect })
+  }
+  const rank = (a: string) => (ASPECT_ORDER.indexOf(a) + ASPECT_ORDER.length + 1) % (ASPECT_ORDER.length + 1)
+  return out.sort((a, b) => rank(a.aspect) - rank(b.aspect) || typeOrder.get(a.targetTypeId)! - typeOrder.get(b.targetTypeId)!)
+}
+
+/** Plans one sighting of a track (also used for a re-show after a miss). */
+export function planTrackSighting(track: PlanTrack, ctx: PlanContext): PlannedSighting {
+  const { content, rng } = ctx
+  const type = content.types.find(t => t.id === track.targetTypeId)
+  if (!type) throw new RangeError(`track ${track.id} names a type outside the deck`)
+  const views = viewsWithRenderings(content).filter(v => v.targetTypeId === track.targetTypeId && v.aspect === track.aspect)
+  const plan = planSighting({
+    track: { reps: track.state.reps, stability: track.state.stability },
+    targetType: { sizeM: type.sizeM, category: type.category },
+    views: views.map(v => ({ id: v.id, conditions: v.variants.map(x => x.condition) })),
+    deck: { windowMs: content.deck.windowMs, minExposureMs: content.deck.minExposureMs },
+    rng,
+  })
+  const view = views.find(v => v.id === plan.viewId)!
+  // The phone-sized rendering of the planned condition (the smallest width of that condition).
+  const variant = view.variants.filter(x => x.condition === plan.condition).sort((a, b) => a.width - b.width)
+    .find(x => x.width >= 320) ?? view.variants.filter(x => x.condition === plan.condition)[0]!
+  let choices: PlannedChoice[] = []
+  let answerChoiceId: string
+  if (content.deck.answerMode === 'typed') {
+    answerChoiceId = makeChoiceIds(1, ctx.randomBytes)[0]!
+  }
+  else {
+    const picked = pickChoices({
+      correct: type,
+      candidates: content.types,
+      lookAlikeIds: content.lookAlikes.get(type.id),
+      crewConfusions: ctx.confusions.get(type.id),
+      count: content.deck.choiceCount,
+      rng,
+    })
+    const ids = makeChoiceIds(picked.length, ctx.randomBytes)
+    choices = picked.map((c, i) => ({ id: ids[i]!, label: c.label, typeId: c.typeId }))
+    answerChoiceId = choices.find(c => c.typeId === type.id)!.id
+  }
+  return {
+    trackId: track.id,
+    targetTypeId: type.id,
+    aspect: track.aspect,
+    variantId: variant.id,
+    file: variant.file,
+    width: variant.width,
+    height: variant.height,
+    condition: plan.condition,
+    rangeM: plan.rangeM,
+    binoculars: plan.binoculars,
+    apparentPx: plan.apparentPx,
+    exposureMs: plan.exposureMs,
+    untilCall: plan.untilCall,
+    windowMs: plan.windowMs,
+    choices,
+    answerChoiceId,
+  }
+}
+
+export interface PlanWatchInput extends PlanContext {
+  tracks: readonly PlanTrack[]
+  nowMs: number
+  newIntroducedToday: number
+  maxSightings?: number
+}
+
+/**
+ * The day's watch: the queue of buildWatchQueue (due first by retrievability, new up to the
+ * deck's limit less those introduced today, no type twice in a row), each sighting planned.
+ */
+export function planWatch(input: PlanWatchInput): PlannedSighting[] {
+  const { content, tracks, nowMs } = input
+  const drillable = new Set(drillableKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
+  const usable = tracks.filter(t => drillable.has(`${t.targetTypeId}|${t.aspect}`))
+  const queue = buildWatchQueue({
+    tracks: usable,
+    nowMs,
+    retention: content.deck.retention,
+    newPerDay: content.deck.newPerDay,
+    newIntroducedToday: input.newIntroducedToday,
+    maxSightings: input.maxSightings ?? WATCH_MAX_SIGHTINGS,
+  })
+  const byId = new Map(usable.map(t => [t.id, t]))
+  return queue.map(id => planTrackSighting(byId.get(id)!, input))
+}
+
+/**
+ * Where a re-show goes among the sightings still to come: `remaining` is the order after the
+ * missed one (its type first), the re-show at least three others later (insertReshow).
+ * Returns the new order of ids, the re-show's id included.
+ */
+export function reshowOrder(missedId: string, remaining: readonly { id: string, typeId: string }[], reshow: { id: string, typeId: string }): string[] {
+  const types = new Map([[missedId, reshow.typeId], [reshow.id, reshow.typeId], ...remaining.map(r => [r.id, r.typeId] as [string, string])])
+  const queue = [missedId, ...remaining.map(r => r.id)]
+  return insertReshow(queue, reshow.id, 0, id => types.get(id)!).slice(1)
+}
+
+// A stored sighting keeps no flag: an image that may stay the longest rung stays until the call,
+// which is the same thing on screen (the sighting ends at the call either way).
+export function isUntilCall(exposureMs: number) {
+  return exposureMs >= NEW_TRACK_MAX_EXPOSURE_MS
+}

@@ -251,6 +251,8 @@ export const calls = sqliteTable('calls', {
   uniqueIndex('calls_sighting_uq').on(t.sightingId),
   index('calls_user_time_idx').on(t.userId, t.calledAt),
   index('calls_deck_time_idx').on(t.deckId, t.calledAt),
+  // Covers the crew table's per-person counts and latencies, so they are read from the index alone.
+  index('calls_user_deck_time_idx').on(t.userId, t.deckId, t.calledAt, t.correct, t.grade, t.anticipation, t.latencyMs, t.aspect, t.condition, t.targetTypeId),
 ])
 
 export const tapBaselines = sqliteTable('tap_baselines', {

@@ -1,0 +1,1 @@
+CREATE INDEX `calls_user_deck_time_idx` ON `calls` (`user_id`,`deck_id`,`called_at`,`correct`,`grade`,`anticipation`,`latency_ms`,`aspect`,`condition`,`target_type_id`);

@@ -1,0 +1,10 @@
+import { PersonParam, PersonQuery } from '#shared/schemas/stats'
+
+// One person's progress: latency over time, accuracy by aspect and condition, confusions, baseline, readiness.
+export default defineEventHandler(async (event) => {
+  const { userId } = await paramsInput(event, PersonParam)
+  const sqlite = useSqlite()
+  const actor = await requirePersonAccess(event, sqlite, userId)
+  const filters = await queryInput(event, PersonQuery)
+  return personReportOf(sqlite, userId, actor.id, filters, Date.now())
+})

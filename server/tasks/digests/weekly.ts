@@ -1,0 +1,8 @@
+// The weekly digest to leads (scheduled in nuxt.config's nitro.scheduledTasks; also `npx tsx server/scripts/digests.ts --weekly`).
+export default defineTask({
+  meta: { name: 'digests:weekly', description: 'Weekly digest of the week just ended to each lead of each crew' },
+  async run() {
+    const result = await runWeeklyDigests(Date.now())
+    return { result }
+  },
+})

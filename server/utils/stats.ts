@@ -1,0 +1,511 @@
+// Loading of calls for the leads' and instructors' views, and the calls into server/core/reports.
+// Plain prepared statements on the one SQLite handle: the crew table reads tens of thousands of
+// calls per request, so rows come back as arrays and only the columns the reports use.
+import type { Database, Statement } from 'better-sqlite3'
+import type { H3Event } from 'h3'
+import { createError } from 'h3'
+import { DAY_MS, callsSince, personStats, statsBy } from '../core/reports/crew-stats'
+import type { BreakdownRow, CallRecord } from '../core/reports/crew-stats'
+import { confusionMatrix, worstPairs } from '../core/reports/confusions'
+import type { ConfusionPair } from '../core/reports/confusions'
+import { readiness } from '../core/reports/readiness'
+import type { ReadinessStandard, TrackKey } from '../core/reports/readiness'
+import type { CallGrade } from '../../shared/utils/grade'
+import { quantileSorted, rollingMedian, sortedCopy } from '../../shared/utils/statistics'
+import type {
+  BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PersonReport, TrendFigures,
+} from '../../shared/types/stats'
+import type { Actor } from './gate'
+import { hasRole, requireActor } from './gate'
+
+export interface StatsFilters {
+  deckId?: string
+  days: number
+  aspect?: string
+  condition?: string
+}
+
+interface CrewRow { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number }
+interface DeckRow { id: string, title: string, hesitationMs: number }
+
+// ---------------------------------------------------------------- statements
+
+const CALL_COLUMNS = 'deck_id, target_type_id, called_type_id, aspect, condition, correct, grade, anticipation, latency_ms, called_at'
+
+function statementsFor(sqlite: Database) {
+  const p = (s: string) => sqlite.prepare(s)
+  return {
+    crew: p('SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays FROM crews WHERE id = ?'),
+    crewDecks: p(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
+      WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`),
+    trainees: p(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
+      WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee')
+      ORDER BY u.name, u.id`),
+    // Every (target type, aspect) pair with a view: what the standard asks to be called.
+    trackKeys: p(`SELECT DISTINCT v.target_type_id, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id
+      WHERE t.deck_id = ?`),
+    userCalls: p(`SELECT ${CALL_COLUMNS} FROM calls WHERE user_id = ? AND called_at >= ? AND called_at <= ?
+      AND deck_id IN (SELECT value FROM json_each(?))`).raw(),
+    lastCall: p(`SELECT called_at FROM calls WHERE user_id = ? AND called_at <= ? AND deck_id IN (SELECT value FROM json_each(?))
+      ORDER BY called_at DESC LIMIT 1`).pluck(),
+    tracksDue: p(`SELECT COUNT(*) FROM tracks WHERE user_id = ? AND due <= ? AND deck_id IN (SELECT value FROM json_each(?))`).pluck(),
+    typeNames: p(`SELECT t.id, t.name FROM target_types t WHERE t.deck_id IN (SELECT value FROM json_each(?)) ORDER BY t.name, t.id`),
+    typeName: p('SELECT name FROM target_types WHERE id = ?').pluck(),
+    crewDeckCalls: p(`SELECT target_type_id, called_type_id FROM calls WHERE deck_id = ? AND called_at >= ? AND called_at <= ?
+      AND user_id IN (SELECT user_id FROM memberships WHERE crew_id = ?)`).raw(),
+    deck: p('SELECT id, title, owner_id AS ownerId, hesitation_ms AS hesitationMs FROM decks WHERE id = ?'),
+    deckCrews: p(`SELECT c.id, c.name FROM deck_crews dc JOIN crews c ON c.id = dc.crew_id WHERE dc.deck_id = ? ORDER BY c.name`),
+    deckCalls: p(`SELECT target_type_id, called_type_id, aspect, condition FROM calls WHERE deck_id = ? AND called_at >= ? AND called_at <= ?
+      AND user_id IN (SELECT m.user_id FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id WHERE dc.deck_id = ?)`).raw(),
+    user: p('SELECT id, name, reminders_opt_out AS remindersOptOut FROM users WHERE id = ?'),
+    userCrews: p(`SELECT c.id, c.name, c.min_accuracy AS minAccuracy, c.min_calls_per_track AS minCallsPerTrack, c.window_days AS windowDays
+      FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`),
+    baseline: p('SELECT simple_ms AS simpleMs, choice_ms AS choiceMs, created_at AS at FROM tap_baselines WHERE user_id = ? ORDER BY created_at DESC LIMIT 1'),
+    ownsDeckInCrew: p(`SELECT 1 FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id WHERE dc.crew_id = ? AND d.owner_id = ? LIMIT 1`).pluck(),
+    ownsDeckOfPerson: p(`SELECT 1 FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id JOIN decks d ON d.id = dc.deck_id
+      WHERE m.user_id = ? AND d.owner_id = ? LIMIT 1`).pluck(),
+    leadsPerson: p(`SELECT 1 FROM memberships mine JOIN memberships theirs ON theirs.crew_id = mine.crew_id
+      WHERE mine.user_id = ? AND theirs.user_id = ? LIMIT 1`).pluck(),
+  }
+}
+
+type Statements = ReturnType<typeof statementsFor>
+const cache = new WeakMap<Database, Statements>()
+
+function stmts(sqlite: Database): Statements {
+  let s = cache.get(sqlite)
+  if (!s) {
+    s = statementsFor(sqlite)
+    cache.set(sqlite, s)
+  }
+  return s
+}
+
+type RawCall = [string, string, string | null, string, string, number, string, number, number | null, number]
+
+export interface LoadedCall extends CallRecord {
+  deckId: string
+}
+
+function toRecord(r: RawCall): LoadedCall {
+  return {
+    deckId: r[0],
+    targetTypeId: r[1],
+    calledTypeId: r[2],
+    aspect: r[3],
+    condition: r[4],
+    correct: r[5] === 1,
+    grade: r[6] as CallGrade,
+    anticipation: r[7] === 1,
+    latencyMs: r[8],
+    calledAt: r[9],
+  }
+}
+
+/** A person's calls on the given decks with fromMs <= calledAt <= toMs, oldest first. */
+export function loadPersonCalls(sqlite: Database, userId: string, deckIds: readonly string[], fromMs: number, toMs: number): LoadedCall[] {
+  if (!deckIds.length) return []
+  const rows = (stmts(sqlite).userCalls as Statement<unknown[], RawCall>).all(userId, fromMs, toMs, JSON.stringify(deckIds))
+  const out = rows.map(toRecord)
+  out.sort((a, b) => a.calledAt - b.calledAt)
+  return out
+}
+
+function trackKeysOf(sqlite: Database, deckId: string): TrackKey[] {
+  return (stmts(sqlite).trackKeys.raw().all(deckId) as [string, string][]).map(([targetTypeId, aspect]) => ({ targetTypeId, aspect }))
+}
+
+function standardOf(crew: CrewRow): ReadinessStandard {
+  return { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays }
+}
+
+// ---------------------------------------------------------------- access
+
+const noCrewAccess = () => createError({ statusCode: 403, message: 'You do not have access to this crew.' })
+
+/** May the actor read this crew's reports? A lead of the crew, an instructor with a deck assigned to it, or an admin. */
+export function canReadCrewStats(sqlite: Database, actor: Actor, crewId: string): boolean {
+  if (hasRole(actor, 'admin')) return true
+  if (hasRole(actor, 'lead') && actor.crewIds.includes(crewId)) return true
+  return hasRole(actor, 'instructor') && !!stmts(sqlite).ownsDeckInCrew.get(crewId, actor.id)
+}
+
+/** The gate for crew reports: 404 for an unknown crew only to an admin, 403 to everyone else it does not concern. */
+export async function requireCrewStatsAccess(event: H3Event, sqlite: Database, crewId: string): Promise<Actor> {
+  const actor = await requireActor(event)
+  if (hasRole(actor, 'admin')) {
+    if (!stmts(sqlite).crew.get(crewId)) throw createError({ statusCode: 404, message: 'No such crew.' })
+    return actor
+  }
+  if (!canReadCrewStats(sqlite, actor, crewId)) throw noCrewAccess()
+  return actor
+}
+
+/** The person themself, a lead of one of their crews, an instructor with a deck assigned to one of their crews, or an admin. */
+export async function requirePersonAccess(event: H3Event, sqlite: Database, userId: string): Promise<Actor> {
+  const actor = await requireActor(event)
+  if (actor.id === userId) return actor
+  const s = stmts(sqlite)
+  if (hasRole(actor, 'admin')) {
+    if (!s.user.get(userId)) throw createError({ statusCode: 404, message: 'No such person.' })
+    return actor
+  }
+  const asLead = hasRole(actor, 'lead') && !!s.leadsPerson.get(actor.id, userId)
+  const asInstructor = hasRole(actor, 'instructor') && !!s.ownsDeckOfPerson.get(userId, actor.id)
+  if (!asLead && !asInstructor) throw createError({ statusCode: 403, message: 'You can see the progress of people in your own crews only.' })
+  return actor
+}
+
+/** The deck's owner (an instructor) or an admin. */
+export async function requireDeckOwner(event: H3Event, sqlite: Database, deckId: string): Promise<Actor> {
+  const actor = await requireActor(event)
+  if (!hasRole(actor, 'instructor', 'admin')) throw createError({ statusCode: 403, message: 'This needs the instructor or admin role.' })
+  const deck = stmts(sqlite).deck.get(deckId) as { ownerId: string } | undefined
+  if (!deck) throw createError({ statusCode: 404, message: 'No such deck.' })
+  if (!hasRole(actor, 'admin') && deck.ownerId !== actor.id) {
+    throw createError({ statusCode: 403, message: 'Only the deck\'s own instructor sees its confusions.' })
+  }
+  return actor
+}
+
+// ---------------------------------------------------------------- crew table
+
+function decksInScope(sqlite: Database, crewId: string, deckId: string | undefined, who: string): DeckRow[] {
+  const all = stmts(sqlite).crewDecks.all(crewId) as DeckRow[]
+  if (!deckId) return all
+  const one = all.filter(d => d.id === deckId)
+  if (!one.length) throw createError({ statusCode: 404, message: `That deck is not assigned to ${who}. Choose one of its decks.` })
+  return one
+}
+
+export interface DeckReadinessResult { ready: boolean, missing: string[], accuracy: number | null, medianMs: number | null }
+
+/** Readiness on every deck in scope: ready only when ready on each; what is missing is named per deck when there are several. */
+export function readinessOnDecks(
+  calls: readonly LoadedCall[],
+  decks: readonly DeckRow[],
+  keysByDeck: ReadonlyMap<string, TrackKey[]>,
+  standard: ReadinessStandard,
+  nowMs: number,
+): { ready: boolean, missing: string[], perDeck: (DeckReadinessResult & { deck: DeckRow })[] } {
+  if (!decks.length) return { ready: false, missing: ['no deck is assigned to the crew'], perDeck: [] }
+  const perDeck = decks.map((deck) => {
+    const r = readiness({
+      calls: calls.filter(c => c.deckId === deck.id),
+      trackKeys: keysByDeck.get(deck.id) ?? [],
+      standard,
+      hesitationMs: deck.hesitationMs,
+      nowMs,
+    })
+    return { deck, ready: r.ready, missing: r.missing, accuracy: r.accuracy, medianMs: r.medianMs }
+  })
+  const missing = perDeck.flatMap(d => decks.length > 1 ? d.missing.map(m => `${d.deck.title}: ${m}`) : d.missing)
+  return { ready: perDeck.every(d => d.ready), missing, perDeck }
+}
+
+// A right call in SQL, the same rule as isRightCall in server/core/reports/crew-stats.ts.
+const RIGHT = '(correct = 1 AND grade != \'missed\' AND anticipation = 0)'
+
+function tableStatementsFor(sqlite: Database) {
+  const p = (s: string) => sqlite.prepare(s)
+  // One period [from, to) of one person on the decks in scope; the filtered form only when a filter is set.
+  const range = 'user_id = ? AND deck_id IN (SELECT value FROM json_each(?)) AND called_at >= ? AND called_at < ?'
+  const filtered = `${range} AND (? IS NULL OR aspect = ?) AND (? IS NULL OR condition = ?)`
+  return {
+    counts: p(`SELECT COUNT(*), SUM(${RIGHT}) FROM calls WHERE ${range}`).raw(),
+    latencies: p(`SELECT latency_ms FROM calls WHERE ${range} AND ${RIGHT} AND latency_ms IS NOT NULL`).pluck(),
+    countsFiltered: p(`SELECT COUNT(*), SUM(${RIGHT}) FROM calls WHERE ${filtered}`).raw(),
+    latenciesFiltered: p(`SELECT latency_ms FROM calls WHERE ${filtered} AND ${RIGHT} AND latency_ms IS NOT NULL`).pluck(),
+    deckGroups: p(`SELECT target_type_id, aspect, ${RIGHT}, COUNT(*) FROM calls
+      WHERE user_id = ? AND deck_id = ? AND called_at >= ? AND called_at <= ? GROUP BY 1, 2, 3`).raw(),
+    deckLatencies: p(`SELECT latency_ms FROM calls WHERE user_id = ? AND deck_id = ? AND called_at >= ? AND called_at <= ?
+      AND ${RIGHT} AND latency_ms IS NOT NULL`).pluck(),
+  }
+}
+
+const tableCache = new WeakMap<Database, ReturnType<typeof tableStatementsFor>>()
+function tableStmts(sqlite: Database) {
+  let s = tableCache.get(sqlite)
+  if (!s) {
+    s = tableStatementsFor(sqlite)
+    tableCache.set(sqlite, s)
+  }
+  return s
+}
+
+/**
+ * A person's calls on one deck in the standard's window, rebuilt from SQL counts per (target type,
+ * aspect, right or not) and the right calls' latencies: the same multiset of what readiness()
+ * reads (coverage counts, accuracy, the median of right calls), without loading every row.
+ */
+export function readinessCallsOf(sqlite: Database, userId: string, deckId: string, fromMs: number, nowMs: number): CallRecord[] {
+  const t = tableStmts(sqlite)
+  const groups = t.deckGroups.all(userId, deckId, fromMs, nowMs) as [string, string, number, number][]
+  const latencies = t.deckLatencies.all(userId, deckId, fromMs, nowMs) as number[]
+  const out: CallRecord[] = []
+  let next = 0
+  for (const [targetTypeId, aspect, ok, n] of groups) {
+    for (let i = 0; i < n; i++) {
+      const right = ok === 1
+      out.push({
+        targetTypeId,
+        aspect,
+        condition: '',
+        calledTypeId: right ? targetTypeId : null,
+        correct: right,
+        grade: right ? 'sure' : 'missed',
+        anticipation: false,
+        latencyMs: right ? (latencies[next++] ?? null) : null,
+        calledAt: nowMs,
+      })
+    }
+  }
+  return out
+}
+
+function quantileOf(sorted: Float64Array, p: number): number | null {
+  return sorted.length ? quantileSorted(sorted, p) : null
+}
+
+/**
+ * The crew table: one row per trainee of the crew. Calls, accuracy and the quantiles of right
+ * calls cover the `days` days up to nowMs with the aspect and condition filters, counted in SQL;
+ * readiness always follows the crew's standard on the decks in scope, unfiltered (readiness()).
+ */
+export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilters, nowMs: number): CrewStats {
+  const s = stmts(sqlite)
+  const t = tableStmts(sqlite)
+  const crew = s.crew.get(crewId) as CrewRow | undefined
+  if (!crew) throw createError({ statusCode: 404, message: 'No such crew.' })
+  const decks = decksInScope(sqlite, crewId, filters.deckId, 'this crew')
+  const deckIds = decks.map(d => d.id)
+  const deckJson = JSON.stringify(deckIds)
+  const standard = standardOf(crew)
+  const keysByDeck = new Map(decks.map(d => [d.id, trackKeysOf(sqlite, d.id)]))
+  const trainees = s.trainees.all(crewId) as { id: string, name: string }[]
+
+  // Periods back from now, in days: the table's window, both trends and the period before each.
+  const cuts = [...new Set([0, 7, 14, 30, 60, filters.days])].sort((a, b) => a - b)
+  // Segment i is [now - cuts[i+1] days, now - cuts[i] days), the newest including now itself.
+  const bounds = cuts.slice(1).map((d, i) => [nowMs - d * DAY_MS, i === 0 ? nowMs + 1 : nowMs - cuts[i]! * DAY_MS] as const)
+  // Segments [first, last] of the periods covering "the last d days" and "the d days before".
+  const upTo = (d: number) => cuts.indexOf(d) - 1
+  const aspect = filters.aspect ?? null
+  const condition = filters.condition ?? null
+  const anyFilter = aspect !== null || condition !== null
+
+  const rows: CrewStatsRow[] = trainees.map((person) => {
+    const calls = bounds.map(() => 0)
+    const right = bounds.map(() => 0)
+    const lat: number[][] = bounds.map(() => [])
+    if (deckIds.length) {
+      bounds.forEach(([from, to], i) => {
+        const args: unknown[] = anyFilter ? [person.id, deckJson, from, to, aspect, aspect, condition, condition] : [person.id, deckJson, from, to]
+        const [n, r] = (anyFilter ? t.countsFiltered : t.counts).get(...args) as [number, number | null]
+        calls[i] = n
+        right[i] = r ?? 0
+        if (n) lat[i] = (anyFilter ? t.latenciesFiltered : t.latencies).all(...args) as number[]
+      })
+    }
+    const span = (from: number, to: number) => {
+      let n = 0
+      let r = 0
+      const l: number[] = []
+      for (let i = from; i <= to; i++) {
+        n += calls[i]!
+        r += right[i]!
+        for (const x of lat[i]!) l.push(x)
+      }
+      return { n, r, sorted: sortedCopy(l) }
+    }
+    const window = (d: number) => span(0, upTo(d))
+    const before = (d: number) => span(upTo(d) + 1, upTo(2 * d))
+    const trend = (d: number): TrendFigures => {
+      const cur = window(d)
+      const prev = before(d)
+      return {
+        days: d,
+        calls: cur.n,
+        accuracy: cur.n ? cur.r / cur.n : null,
+        medianMs: quantileOf(cur.sorted, 0.5),
+        previousAccuracy: prev.n ? prev.r / prev.n : null,
+        previousMedianMs: quantileOf(prev.sorted, 0.5),
+      }
+    }
+    const main = window(filters.days)
+    const readinessCalls: LoadedCall[] = decks.flatMap(d =>
+      readinessCallsOf(sqlite, person.id, d.id, nowMs - standard.windowDays * DAY_MS, nowMs).map(c => ({ ...c, deckId: d.id })))
+    const ready = readinessOnDecks(readinessCalls, decks, keysByDeck, standard, nowMs)
+    const last = deckIds.length ? s.lastCall.get(person.id, nowMs, deckJson) as number | undefined : undefined
+    return {
+      userId: person.id,
+      name: person.name,
+      calls: main.n,
+      accuracy: main.n ? main.r / main.n : null,
+      medianMs: quantileOf(main.sorted, 0.5),
+      p90Ms: quantileOf(main.sorted, 0.9),
+      ready: ready.ready,
+      trend7: trend(7),
+      trend30: trend(30),
+      lastWatchAt: last ?? null,
+      tracksDue: deckIds.length ? s.tracksDue.get(person.id, nowMs, deckJson) as number : 0,
+      missing: ready.missing,
+    }
+  })
+
+  return {
+    crew: { id: crew.id, name: crew.name },
+    standard,
+    decks,
+    filters: { deckId: filters.deckId ?? null, days: filters.days, aspect, condition },
+    generatedAt: nowMs,
+    rows,
+  }
+}
+
+export const CREW_CSV_COLUMNS = [
+  'userId', 'name', 'calls', 'accuracy', 'medianMs', 'p90Ms', 'ready',
+  'accuracy7', 'medianMs7', 'accuracy30', 'medianMs30', 'lastWatchAt', 'tracksDue', 'missing',
+] as const
+
+/** The crew table flattened for CSV: numbers unformatted, empty for no value, times in ISO 8601. */
+export function crewStatsRecords(stats: CrewStats): (string | number | boolean | null)[][] {
+  return stats.rows.map(r => [
+    r.userId, r.name, r.calls, r.accuracy, r.medianMs, r.p90Ms, r.ready,
+    r.trend7.accuracy, r.trend7.medianMs, r.trend30.accuracy, r.trend30.medianMs,
+    r.lastWatchAt === null ? null : new Date(r.lastWatchAt).toISOString(), r.tracksDue, r.missing.join('; '),
+  ])
+}
+
+// ---------------------------------------------------------------- confusions
+
+function namesOf(sqlite: Database, deckIds: readonly string[]): Map<string, string> {
+  const rows = stmts(sqlite).typeNames.all(JSON.stringify(deckIds)) as { id: string, name: string }[]
+  return new Map(rows.map(r => [r.id, r.name]))
+}
+
+function nameOf(sqlite: Database, names: Map<string, string>, id: string): string {
+  let n = names.get(id)
+  if (n === undefined) {
+    n = (stmts(sqlite).typeName.get(id) as string | undefined) ?? 'an unknown target type'
+    names.set(id, n)
+  }
+  return n
+}
+
+function namedPairs(sqlite: Database, names: Map<string, string>, pairs: readonly ConfusionPair[]): NamedPair[] {
+  return pairs.map(p => ({
+    ...p,
+    truthName: nameOf(sqlite, names, p.truthId),
+    calledName: nameOf(sqlite, names, p.calledId),
+  }))
+}
+
+/** The crew's confusion matrix on one deck (the first assigned one when none is given) over `days` days. */
+export function crewConfusionsOf(sqlite: Database, crewId: string, deckId: string | undefined, days: number, nowMs: number): CrewConfusions {
+  const decks = decksInScope(sqlite, crewId, deckId, 'this crew')
+  const deck = decks[0]
+  if (!deck) return { deck: null, days, types: [], counts: [], noCall: [], totals: [] }
+  const names = namesOf(sqlite, [deck.id])
+  const rows = stmts(sqlite).crewDeckCalls.all(deck.id, nowMs - days * DAY_MS, nowMs, crewId) as [string, string | null][]
+  const m = confusionMatrix(rows.map(([targetTypeId, calledTypeId]) => ({ targetTypeId, calledTypeId })), { types: [...names.keys()] })
+  return {
+    deck,
+    days,
+    types: m.types.map(id => ({ id, name: nameOf(sqlite, names, id) })),
+    counts: m.types.map(truth => m.types.map(called => m.counts[truth]![called]!)),
+    noCall: m.types.map(t => m.noCall[t]!),
+    totals: m.types.map(t => m.totals[t]!),
+  }
+}
+
+/** The worst pairs of a deck across the crews it is assigned to: overall, by aspect and by condition. */
+export function deckConfusionsOf(sqlite: Database, deckId: string, days: number, nowMs: number, limit = 12): DeckConfusions {
+  const s = stmts(sqlite)
+  const deck = s.deck.get(deckId) as DeckRow | undefined
+  if (!deck) throw createError({ statusCode: 404, message: 'No such deck.' })
+  const names = namesOf(sqlite, [deckId])
+  const rows = s.deckCalls.all(deckId, nowMs - days * DAY_MS, nowMs, deckId) as [string, string | null, string, string][]
+  const calls = rows.map(([targetTypeId, calledTypeId, aspect, condition]) => ({ targetTypeId, calledTypeId, aspect, condition }))
+  return {
+    deck: { id: deck.id, title: deck.title },
+    crews: s.deckCrews.all(deckId) as { id: string, name: string }[],
+    days,
+    calls: calls.length,
+    overall: namedPairs(sqlite, names, worstPairs(calls, { limit })),
+    byAspect: namedPairs(sqlite, names, worstPairs(calls, { by: 'aspect', limit })),
+    byCondition: namedPairs(sqlite, names, worstPairs(calls, { by: 'condition', limit })),
+  }
+}
+
+// ---------------------------------------------------------------- person page
+
+// The rolling median of the latency chart: over this many right calls (common practice, no source).
+export const ROLLING_WINDOW = 15
+// At most this many points in the latency chart (the most recent ones).
+export const LATENCY_POINTS = 600
+
+function breakdown(rows: readonly BreakdownRow[], label: (key: string) => string): BreakdownView[] {
+  return rows.map(r => ({ ...r, label: label(r.key) }))
+}
+
+/** Everything the person page shows, for `days` days up to nowMs on the decks of the person's crews. */
+export function personReportOf(sqlite: Database, userId: string, viewerId: string, filters: { deckId?: string, days: number }, nowMs: number): PersonReport {
+  const s = stmts(sqlite)
+  const user = s.user.get(userId) as { id: string, name: string, remindersOptOut: number } | undefined
+  if (!user) throw createError({ statusCode: 404, message: 'No such person.' })
+  const crews = s.userCrews.all(userId) as CrewRow[]
+  // Decks of all the person's crews, each read against the standard of the first crew it is assigned to.
+  const deckCrew = new Map<string, CrewRow>()
+  const allDecks: DeckRow[] = []
+  for (const crew of crews) {
+    for (const d of s.crewDecks.all(crew.id) as DeckRow[]) {
+      if (deckCrew.has(d.id)) continue
+      deckCrew.set(d.id, crew)
+      allDecks.push(d)
+    }
+  }
+  let decks = allDecks
+  if (filters.deckId) {
+    decks = allDecks.filter(d => d.id === filters.deckId)
+    if (!decks.length) throw createError({ statusCode: 404, message: 'That deck is not assigned to this person\'s crew. Choose one of its decks.' })
+  }
+  const deckIds = decks.map(d => d.id)
+  const maxWindow = Math.max(filters.days, ...decks.map(d => deckCrew.get(d.id)!.windowDays))
+  const all = loadPersonCalls(sqlite, userId, deckIds, nowMs - maxWindow * DAY_MS, nowMs)
+  const calls = callsSince(all, nowMs, filters.days)
+  const summary = personStats(calls, nowMs)
+
+  const right = calls.filter(c => c.correct && c.grade !== 'missed' && !c.anticipation && c.latencyMs !== null)
+  const rolling = rollingMedian(right.map(c => c.latencyMs!), ROLLING_WINDOW)
+  const latency = right.map((c, i) => ({ at: c.calledAt, ms: c.latencyMs!, rolling: rolling[i]! })).slice(-LATENCY_POINTS)
+
+  const names = namesOf(sqlite, deckIds)
+  const typeLabel = (id: string) => nameOf(sqlite, names, id)
+  const baselineRow = s.baseline.get(userId) as { simpleMs: number, choiceMs: number, at: number } | undefined
+
+  const readinessViews: DeckReadinessView[] = decks.map((deck) => {
+    const r = readinessOnDecks(all, [deck], new Map([[deck.id, trackKeysOf(sqlite, deck.id)]]), standardOf(deckCrew.get(deck.id)!), nowMs)
+    const d = r.perDeck[0]!
+    return { deckId: deck.id, title: deck.title, ready: d.ready, missing: d.missing, accuracy: d.accuracy, medianMs: d.medianMs, hesitationMs: deck.hesitationMs }
+  })
+
+  return {
+    person: { id: user.id, name: user.name, crews: crews.map(c => ({ id: c.id, name: c.name })) },
+    self: viewerId === userId,
+    remindersOptOut: viewerId === userId ? user.remindersOptOut === 1 : null,
+    decks: allDecks,
+    filters: { deckId: filters.deckId ?? null, days: filters.days },
+    summary: { calls: summary.calls, accuracy: summary.accuracy, medianMs: summary.medianMs, p90Ms: summary.p90Ms, lastCallAt: summary.lastCallAt },
+    latency,
+    rollingWindow: ROLLING_WINDOW,
+    byAspect: breakdown(statsBy(calls, 'aspect'), k => k),
+    byCondition: breakdown(statsBy(calls, 'condition'), k => k),
+    weakest: breakdown(statsBy(calls, 'targetTypeId').slice(0, 5), typeLabel),
+    confusions: namedPairs(sqlite, names, worstPairs(calls, { limit: 8 })),
+    baseline: baselineRow ?? null,
+    netMs: baselineRow && summary.medianMs !== null ? Math.max(0, summary.medianMs - baselineRow.choiceMs) : null,
+    readiness: readinessViews,
+    tracksDue: deckIds.length ? s.tracksDue.get(userId, nowMs, JSON.stringify(deckIds)) as number : 0,
+  }
+}

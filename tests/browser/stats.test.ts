@@ -1,0 +1,75 @@
+// The lead's crew table and a person page at desktop size, the trainee's own progress on a phone.
+import type { Browser } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
+import { crewIdOf } from '../support/client'
+
+let browser: Browser
+beforeAll(async () => {
+  browser = await launch()
+})
+afterAll(async () => {
+  await browser?.close()
+})
+
+const seconds = (s: string) => (s.trim() === '—' ? Number.POSITIVE_INFINITY : Number.parseFloat(s))
+
+describe('the crew table (lead, desktop)', () => {
+  it('sorts by median, filters by deck, shows the heat map and opens a person page with charts', async () => {
+    const crewId = await crewIdOf('lead@glint.demo')
+    const { context, page } = await newPage(browser, DESKTOP)
+    await signIn(page, 'lead@glint.demo')
+    await page.goto(`/crews/${crewId}`)
+    await page.getByRole('heading', { name: 'Trainees' }).waitFor()
+    const table = page.getByRole('table', { name: /Trainees of the crew/ })
+    const rows = table.locator('tbody tr', { has: page.locator('th[scope=row]') })
+    await expect.poll(() => rows.count()).toBeGreaterThan(0)
+
+    const median = page.getByRole('columnheader', { name: /Median/ })
+    await median.getByRole('button').click()
+    await expect.poll(() => median.getAttribute('aria-sort')).toBe('ascending')
+    const values = (await rows.evaluateAll(trs => trs.map(tr => tr.querySelectorAll('td')[3]?.textContent ?? ''))).map(seconds)
+    expect(values).toEqual([...values].sort((a, b) => a - b))
+    await median.getByRole('button').click()
+    await expect.poll(() => median.getAttribute('aria-sort')).toBe('descending')
+
+    // Filter by the first deck of the crew: the request carries it and the table stays.
+    const deck = page.getByLabel('Deck')
+    const options = await deck.locator('option').evaluateAll(os => os.map(o => (o as HTMLOptionElement).value).filter(Boolean))
+    if (options.length) {
+      const answered = page.waitForResponse(r => r.url().includes('/stats?') && r.url().includes(`deckId=${options[0]}`))
+      await deck.selectOption(options[0]!)
+      expect((await answered).status()).toBe(200)
+    }
+    expect(await page.getByText(/ready|not yet/).count()).toBeGreaterThan(0)
+    expect(await page.getByRole('link', { name: 'Download CSV' }).getAttribute('href')).toMatch(/stats\.csv/)
+    await shot(page, 'stats-crew-table')
+
+    const heat = page.locator('section', { has: page.locator('#conf-h') })
+    await heat.scrollIntoViewIfNeeded()
+    if (options.length) expect(await heat.locator('td').count()).toBeGreaterThan(0)
+    await shot(page, 'stats-confusions')
+
+    await rows.first().locator('th a').click()
+    await page.waitForURL(/\/people\//)
+    await page.getByRole('heading', { name: 'Recognition speed over time' }).waitFor()
+    await expect.poll(() => page.locator('canvas').count(), { timeout: 10_000 }).toBeGreaterThan(0)
+    expect(await page.getByText('The numbers of this chart, by day').count()).toBe(1)
+    await shot(page, 'stats-person')
+    await context.close()
+  })
+})
+
+describe('your progress (trainee, phone)', () => {
+  it('opens from the home card, draws the charts and fits the phone', async () => {
+    const { context, page } = await newPage(browser, PHONE)
+    await signIn(page, 'trainee@glint.demo')
+    await page.getByRole('link', { name: 'See your progress' }).click()
+    await page.waitForURL(/\/people\/me/)
+    await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toContain('Your progress')
+    expect(await page.getByRole('checkbox', { name: /E-mail me/ }).count()).toBe(1)
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width)
+    await shot(page, 'stats-person-phone')
+    await context.close()
+  })
+})

@@ -1,0 +1,131 @@
+// The crew table's SQL path (server/utils/stats.ts) on a real SQLite file: its counts and quantiles
+// against simple-statistics on the same latencies, and its readiness against readiness() on every row.
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import type { Database } from 'better-sqlite3'
+import { quantile } from 'simple-statistics'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { applyMigrations, openDatabase } from '../../../server/database/client'
+import { DAY_MS, isRightCall } from '../../../server/core/reports/crew-stats'
+import type { CallRecord } from '../../../server/core/reports/crew-stats'
+import { readiness } from '../../../server/core/reports/readiness'
+import { crewStatsOf, loadPersonCalls, readinessCallsOf } from '../../../server/utils/stats'
+import { digestDay, digestWeek } from '../../../server/utils/digests'
+
+const NOW = Date.UTC(2025, 5, 16, 12)
+const ASPECTS = ['beam', 'head-on']
+const CONDITIONS = ['haze', 'sunlit', 'goggles']
+let dir: string
+let sqlite: Database
+const people = ['p1aaaaaaaa', 'p2aaaaaaaa', 'p3aaaaaaaa']
+const types = ['ty1aaaaaaa', 'ty2aaaaaaa', 'ty3aaaaaaa']
+
+// Deterministic pseudo-random numbers (mulberry32).
+function rng(seed: number) {
+  let a = seed >>> 0
+  return () => {
+    a = (a + 0x6D2B79F5) >>> 0
+    let t = a
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
+
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), 'glint-stats-unit-'))
+  const opened = openDatabase(join(dir, 'g.sqlite'))
+  applyMigrations(opened.db)
+  sqlite = opened.sqlite
+  sqlite.pragma('foreign_keys = OFF')
+  const r = rng(7)
+  sqlite.prepare('INSERT INTO crews (id, name) VALUES (\'crewaaaaaa\', \'Unit crew\')').run()
+  sqlite.prepare('INSERT INTO users (id, email, name, password_hash) VALUES (\'ownraaaaaa\', \'o@x.test\', \'Owner\', \'x\')').run()
+  sqlite.prepare('INSERT INTO decks (id, title, category, owner_id, hesitation_ms) VALUES (\'deckaaaaaa\', \'Unit deck\', \'aircraft\', \'ownraaaaaa\', 1200)').run()
+  sqlite.prepare('INSERT INTO deck_crews (deck_id, crew_id) VALUES (\'deckaaaaaa\', \'crewaaaaaa\')').run()
+  for (const t of types) {
+    sqlite.prepare('INSERT INTO target_types (id, deck_id, name, category, affiliation, size_m, features) VALUES (?, \'deckaaaaaa\', ?, \'aircraft\', \'neutral\', 10, \'{}\')').run(t, t)
+    for (const a of ASPECTS) sqlite.prepare('INSERT INTO views (id, target_type_id, aspect, source_sha, width, height) VALUES (?, ?, ?, \'s\', 1, 1)').run(`${t}${a}`, t, a)
+  }
+  const call = sqlite.prepare(`INSERT INTO calls (id, sighting_id, user_id, deck_id, target_type_id, called_type_id, aspect, condition, correct, grade,
+    anticipation, latency_ms, called_at, received_at) VALUES (?, ?, ?, 'deckaaaaaa', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`)
+  let n = 0
+  people.forEach((p, k) => {
+    sqlite.prepare('INSERT INTO users (id, email, name, password_hash) VALUES (?, ?, ?, \'x\')').run(p, `${p}@x.test`, `Person ${k}`)
+    sqlite.prepare('INSERT INTO user_roles (user_id, role) VALUES (?, \'trainee\')').run(p)
+    sqlite.prepare('INSERT INTO memberships (crew_id, user_id) VALUES (\'crewaaaaaa\', ?)').run(p)
+    for (let i = 0; i < 400 + 150 * k; i++) {
+      const truth = types[Math.floor(r() * 3)]!
+      const correct = r() < 0.85 + 0.05 * k
+      const anticipation = correct && r() < 0.02
+      const latency = r() < 0.03 ? null : Math.round(300 + r() * 2000)
+      const grade = !correct || latency === null || anticipation ? 'missed' : latency <= 600 ? 'instant' : latency <= 1200 ? 'sure' : 'hesitant'
+      const at = NOW - Math.floor(r() * 70 * DAY_MS)
+      call.run(`c${n}`, `s${n}`, p, truth, correct ? truth : types[(types.indexOf(truth) + 1) % 3], ASPECTS[Math.floor(r() * 2)], CONDITIONS[Math.floor(r() * 3)],
+        correct ? 1 : 0, grade, anticipation ? 1 : 0, latency, at, at)
+      n++
+    }
+  })
+})
+
+afterAll(() => {
+  sqlite?.close()
+  rmSync(dir, { recursive: true, force: true })
+})
+
+const rightLat = (calls: CallRecord[]) => calls.filter(c => isRightCall(c) && c.latencyMs !== null).map(c => c.latencyMs!)
+
+describe('crew table SQL path', () => {
+  for (const filters of [{ days: 30 }, { days: 7 }, { days: 45, aspect: 'beam' }, { days: 60, condition: 'haze' }]) {
+    it(`counts and quantiles equal simple-statistics on the same calls (${JSON.stringify(filters)})`, () => {
+      const stats = crewStatsOf(sqlite, 'crewaaaaaa', filters, NOW)
+      expect(stats.rows).toHaveLength(3)
+      for (const row of stats.rows) {
+        const all = loadPersonCalls(sqlite, row.userId, ['deckaaaaaa'], 0, NOW)
+        const from = NOW - filters.days * DAY_MS
+        const inWindow = all.filter(c => c.calledAt >= from
+          && (!('aspect' in filters) || c.aspect === filters.aspect) && (!('condition' in filters) || c.condition === filters.condition))
+        const lat = rightLat(inWindow)
+        expect(row.calls).toBe(inWindow.length)
+        expect(row.accuracy).toBe(inWindow.filter(isRightCall).length / inWindow.length)
+        // Reference: simple-statistics quantile (R type 7), as check-values.md asks.
+        expect(row.medianMs).toBe(quantile(lat, 0.5))
+        expect(row.p90Ms).toBe(quantile(lat, 0.9))
+        const prev7 = inWindow.length
+          ? all.filter(c => c.calledAt < NOW - 7 * DAY_MS && c.calledAt >= NOW - 14 * DAY_MS
+            && (!('aspect' in filters) || c.aspect === filters.aspect) && (!('condition' in filters) || c.condition === filters.condition))
+          : []
+        if (prev7.length) expect(row.trend7.previousMedianMs).toBe(quantile(rightLat(prev7), 0.5))
+      }
+    })
+  }
+
+  it('reaches the same readiness as readiness() on every call of the window', () => {
+    const keys = types.flatMap(t => ASPECTS.map(aspect => ({ targetTypeId: t, aspect })))
+    for (const windowDays of [3, 14, 30]) {
+      for (const p of people) {
+        const full = loadPersonCalls(sqlite, p, ['deckaaaaaa'], 0, NOW)
+        const rebuilt = readinessCallsOf(sqlite, p, 'deckaaaaaa', NOW - windowDays * DAY_MS, NOW)
+        for (const minAccuracy of [0.8, 0.9]) {
+          const standard = { minAccuracy, minCallsPerTrack: 4, windowDays }
+          const a = readiness({ calls: full, trackKeys: keys, standard, hesitationMs: 1200, nowMs: NOW })
+          const b = readiness({ calls: rebuilt, trackKeys: keys, standard, hesitationMs: 1200, nowMs: NOW })
+          expect(b).toEqual(a)
+        }
+      }
+    }
+  })
+})
+
+describe('digest periods', () => {
+  // ISO 8601 week numbering (from memory: 2020 has 53 weeks; 2024-01-01 is a Monday, week 1).
+  it('names the ISO week before now', () => {
+    expect(digestWeek(Date.UTC(2024, 2, 4, 7))).toEqual({ weekStart: Date.UTC(2024, 1, 26), weekEnd: Date.UTC(2024, 2, 4), period: '2024-W09' })
+    expect(digestWeek(Date.UTC(2021, 0, 4, 7)).period).toBe('2020-W53')
+    expect(digestWeek(Date.UTC(2024, 0, 8, 0)).period).toBe('2024-W01')
+    // A Sunday belongs to the week that started the Monday before.
+    expect(digestWeek(Date.UTC(2024, 2, 10, 23)).weekEnd).toBe(Date.UTC(2024, 2, 4))
+    expect(digestDay(Date.UTC(2024, 2, 4, 23, 59))).toBe('2024-03-04')
+  })
+})

@@ -5,6 +5,11 @@ export interface NavItem { to: string, label: string }
 // The main menu for a person's roles; each entry is a page that exists.
 export function navFor(roles: Role[], has: (...r: Role[]) => boolean): NavItem[] {
   const items: NavItem[] = [{ to: '/', label: 'Home' }]
+  if (has('trainee')) items.push({ to: '/watch', label: 'Watch' })
+  if (has('trainee')) items.push({ to: '/scan', label: 'Scan' })
+  if (has('trainee')) items.push({ to: '/people/me', label: 'Progress' })
+  if (has('instructor')) items.push({ to: '/decks', label: 'Decks' })
+  if (has('instructor', 'admin')) items.push({ to: '/scan/drills', label: 'Scan drills' })
   if (has('admin')) items.push({ to: '/admin', label: 'People' }, { to: '/admin/outbox', label: 'Outbox' }, { to: '/admin/audit', label: 'Audit' })
   return roles.length ? items : []
 }

@@ -19,7 +19,30 @@ const signedIn: Entry = { anon: 401, trainee: 'pass', instructor: 'pass', lead: 
 const adminOnly: Entry = { anon: 401, trainee: 403, instructor: 403, lead: 403, admin: 'pass' }
 
 export const MATRIX: Record<string, Entry> = {
+  'GET /api/decks': signedIn,
+  'POST /api/decks': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'GET /api/decks/builder': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'GET /api/decks/:deck': signedIn,
+  'GET /api/decks/:deck/builder': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'PATCH /api/decks/:deck': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'DELETE /api/decks/:deck': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'PUT /api/decks/:deck/crews': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 'pass' },
+  'POST /api/decks/:deck/target-types': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  // The matrix posts JSON; the body middleware refuses a non-multipart upload (415) before any route runs.
+  'POST /api/decks/:deck/views': { anon: 415, trainee: 415, instructor: 'pass', lead: 415, admin: 415 },
+  'PATCH /api/target-types/:target-type': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'DELETE /api/target-types/:target-type': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'DELETE /api/views/:view': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'GET /api/jobs/:job': signedIn,
+  'POST /api/watches': { anon: 401, trainee: 'pass', instructor: 403, lead: 403, admin: 403 },
+  'GET /api/watches/today': { anon: 401, trainee: 'pass', instructor: 403, lead: 403, admin: 403 },
+  'GET /api/watches/:watch/pack': { anon: 401, trainee: 404, instructor: 403, lead: 403, admin: 403 },
+  'POST /api/sightings/:sighting/call': { anon: 401, trainee: 'pass', instructor: 403, lead: 403, admin: 403 },
+  'POST /api/baseline': { anon: 401, trainee: 'pass', instructor: 'pass', lead: 'pass', admin: 'pass' },
+  'GET /api/baseline/me': signedIn,
   'GET /api/health': anyone,
+  // The catch-all: an /api path that names no route is a JSON 404 for everyone.
+  'GET /api/:path': { anon: 404, trainee: 404, instructor: 404, lead: 404, admin: 404 },
   'POST /api/auth/login': anyone,
   'POST /api/auth/logout': signedIn,
   'GET /api/auth/me': signedIn,
@@ -50,5 +73,34 @@ export const MATRIX: Record<string, Entry> = {
   'DELETE /api/crews/:crew/members/:user': {
     anon: 401, trainee: 403, instructor: 403, lead: 'pass', admin: 'pass',
     otherCrew: { lead: 403, admin: 'pass' },
+  },
+  // Crew reports: a lead of the crew, an instructor with a deck assigned to it (the demo
+  // instructor's decks go to both demo crews), an admin.
+  'GET /api/crews/:crew/stats': {
+    anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
+    otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
+  },
+  'GET /api/crews/:crew/stats.csv': {
+    anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
+    otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
+  },
+  'GET /api/crews/:crew/confusions': {
+    anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
+    otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
+  },
+  // An unknown deck: 404 to those who could own one, 403 to the rest.
+  'GET /api/decks/:deck/confusions': { anon: 401, trainee: 403, instructor: 404, lead: 403, admin: 404 },
+  // An unknown person: 404 to the admin only; nobody else learns whether the id exists.
+  'GET /api/people/:user': { anon: 401, trainee: 403, instructor: 403, lead: 403, admin: 404 },
+  'POST /api/digests/run': adminOnly,
+  'GET /api/scan/drills': signedIn,
+  'POST /api/scan/drills': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 'pass' },
+  'PATCH /api/scan/drills/:drill': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 'pass' },
+  'PUT /api/scan/drills/:drill/crews': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 'pass' },
+  'GET /api/scan/passes': signedIn,
+  'POST /api/scan/passes': signedIn,
+  'GET /api/crews/:crew/scan': {
+    anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
+    otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
   },
 }

@@ -2,15 +2,22 @@
 // browser names the sender in Origin and Sec-Fetch-Site. Requests with neither (curl, scripts) pass.
 const UNSAFE = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
 
+let configuredOrigin: string | null | undefined
+
+// The configured public address is read once (runtime config is rebuilt on each call with an event).
 function ownOrigins(event: import('h3').H3Event) {
-  const origins = [getRequestURL(event).origin]
-  const configured = useRuntimeConfig(event).publicUrl
-  if (configured) {
-    try {
-      origins.push(new URL(configured).origin)
+  if (configuredOrigin === undefined) {
+    configuredOrigin = null
+    const configured = useRuntimeConfig().publicUrl
+    if (configured) {
+      try {
+        configuredOrigin = new URL(configured).origin
+      }
+      catch { /* an unusable NUXT_PUBLIC_URL adds nothing */ }
     }
-    catch { /* an unusable NUXT_PUBLIC_URL adds nothing */ }
   }
+  const origins = [getRequestURL(event).origin]
+  if (configuredOrigin) origins.push(configuredOrigin)
   return origins
 }
 

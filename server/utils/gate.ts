@@ -18,24 +18,58 @@ declare module 'h3' {
 
 const signedOut = () => createError({ statusCode: 401, message: 'Sign in to continue.' })
 
+const SESSION_COOKIE = 'nuxt-session'
+// Unsealing a session cookie costs about a millisecond; the same sealed value always unseals to
+// the same data, so it is kept here until the session's own lifetime ends. The account is still
+// read from the database on every request, so sign-out and disable take effect at once.
+const unsealed = new Map<string, { userId: string, sv: number, until: number }>()
+const UNSEALED_MAX = 10_000
+
+async function sessionOf(event: H3Event): Promise<{ userId: string, sv: number } | null> {
+  const sealed = parseCookies(event)[SESSION_COOKIE]
+  const hit = sealed ? unsealed.get(sealed) : undefined
+  if (hit && hit.until > Date.now()) return hit
+  const session = await getUserSession(event)
+  if (!session.user?.id) return null
+  const value = { userId: session.user.id, sv: session.sv, until: (session.loggedInAt ?? 0) + useRuntimeConfig().session.maxAge! * 1000 }
+  if (sealed) {
+    if (unsealed.size >= UNSEALED_MAX) unsealed.clear()
+    unsealed.set(sealed, value)
+  }
+  return value
+}
+
+let statements: ReturnType<typeof prepare> | undefined
+function prepare() {
+  const sqlite = useSqlite()
+  return {
+    user: sqlite.prepare<[string], { id: string, email: string, name: string, disabled: number, session_version: number }>(
+      'SELECT id, email, name, disabled, session_version FROM users WHERE id = ?'),
+    roles: sqlite.prepare<[string], { role: string }>('SELECT role FROM user_roles WHERE user_id = ?'),
+    crews: sqlite.prepare<[string], { crew_id: string }>('SELECT crew_id FROM memberships WHERE user_id = ?'),
+  }
+}
+
 // The one gate of every route: a sealed session whose account still exists, is enabled and
 // carries the current session version (raised at sign-out and disable). Roles and crews are
 // read from the database on every request, so a change takes effect on the next one.
 export async function requireActor(event: H3Event): Promise<Actor> {
   if (event.context.actor) return event.context.actor
-  const session = await getUserSession(event)
-  if (!session.user?.id) throw signedOut()
-  const db = useDb()
-  const user = db.select().from(tables.users).where(eq(tables.users.id, session.user.id)).get()
-  if (!user || user.disabled || user.sessionVersion !== session.sv) {
+  const session = await sessionOf(event)
+  if (!session) throw signedOut()
+  statements ??= prepare()
+  const user = statements.user.get(session.userId)
+  if (!user || user.disabled || user.session_version !== session.sv) {
     await clearUserSession(event)
     throw signedOut()
   }
-  const roles = db.select({ role: tables.userRoles.role }).from(tables.userRoles)
-    .where(eq(tables.userRoles.userId, user.id)).all().map(r => r.role as Role)
-  const crewIds = db.select({ crewId: tables.memberships.crewId }).from(tables.memberships)
-    .where(eq(tables.memberships.userId, user.id)).all().map(r => r.crewId)
-  const actor: Actor = { id: user.id, email: user.email, name: user.name, roles, crewIds }
+  const actor: Actor = {
+    id: user.id,
+    email: user.email,
+    name: user.name,
+    roles: statements.roles.all(user.id).map(r => r.role as Role),
+    crewIds: statements.crews.all(user.id).map(r => r.crew_id),
+  }
   event.context.actor = actor
   return actor
 }

@@ -38,6 +38,8 @@ export default defineNuxtConfig({
   nitro: {
     output: tag ? { dir: `.output-${tag}` } : undefined,
     experimental: { tasks: true },
+    // Weekly digest to leads on Monday 06:00, daily reminders to trainees at 05:00 (server time).
+    scheduledTasks: { '0 6 * * 1': ['digests:weekly'], '0 5 * * *': ['digests:daily'] },
     externals: { external: ['better-sqlite3'] },
   },
   typescript: { strict: true },

@@ -9,6 +9,12 @@ export const DEMO_PASSWORD = 'harbour-lantern-42'
 
 export const DEMO_CREWS = ['Skerrow Point Station', 'Vellan Ness Station'] as const
 
+// Each crew's readiness standard, as its lead set it (invented): Skerrow Point asks every target
+// type and aspect once in five weeks; Vellan Ness keeps the defaults (twice in 14 days).
+const DEMO_STANDARDS: Record<string, { minAccuracy: number, minCallsPerTrack: number, windowDays: number }> = {
+  'Skerrow Point Station': { minAccuracy: 0.85, minCallsPerTrack: 1, windowDays: 35 },
+}
+
 export const DEMO_PEOPLE: { email: string, name: string, roles: string[], crews: number[] }[] = [
   { email: 'admin@glint.demo', name: 'Orla Brenwick', roles: ['admin'], crews: [] },
   { email: 'instructor@glint.demo', name: 'Tamsin Quarrie', roles: ['instructor'], crews: [0, 1] },
@@ -32,7 +38,7 @@ export async function seedPeople(db: GlintDb) {
     if (found) crewIds.push(found.id)
     else {
       const id = newId()
-      db.insert(t.crews).values({ id, name }).run()
+      db.insert(t.crews).values({ id, name, ...DEMO_STANDARDS[name] }).run()
       crewIds.push(id)
     }
   }

@@ -1,0 +1,8 @@
+import { IdParam } from '#shared/schemas/params'
+
+// The trainee ends a running attempt; sightings not called count as wrong.
+export default defineEventHandler(async (event) => {
+  const { id } = await paramsInput(event, IdParam)
+  const actor = await requireRole(event, 'trainee')
+  return finishCheckAttempt(useSqlite(), actor, id)
+})

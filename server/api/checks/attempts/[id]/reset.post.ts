@@ -1,0 +1,10 @@
+import { IdParam } from '#shared/schemas/params'
+
+// A lead of the trainee's crew lets them take the check again.
+export default defineEventHandler(async (event) => {
+  const { id } = await paramsInput(event, IdParam)
+  const actor = await requireRole(event, 'lead')
+  const attempt = resetCheckAttempt(useSqlite(), actor, id)
+  audit(actor, 'check.reset', 'check_attempt', id, { checkId: attempt.checkId, userId: attempt.userId })
+  return attempt
+})

@@ -1,0 +1,5 @@
+// The checks of /checks: the instructor's own, the trainee's with their status, the lead's crews with their attempts.
+export default defineEventHandler(async (event) => {
+  const actor = await requireActor(event)
+  return listChecks(useSqlite(), actor)
+})

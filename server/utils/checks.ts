@@ -1,0 +1,539 @@
+// Qualification checks on the database: an instructor's definition, a trainee's one attempt (a
+// watch of kind 'check' issued whole, no pack, no feedback, no track touched), the score, the
+// lead's reset and sign-off. Plain imports, like watch.ts, which calls recordCheckCall.
+import { randomBytes as cryptoRandomBytes, randomInt } from 'node:crypto'
+import type { Database } from 'better-sqlite3'
+import { createError } from 'h3'
+import { makeChoiceIds, pickChoices } from '../core/watch/choices'
+import { randomIndex } from '../core/watch/rng'
+import { PX_BY_RUNG, placeRange } from '../core/watch/sighting-plan'
+import type { CallGrade } from '../../shared/utils/grade'
+import type {
+  AttemptStatus, AttemptSummary, CheckCallRecorded, CheckInput, CheckLists, CheckPatchInput, CheckResult, CheckToTake, CheckView, CrewChecks,
+} from '../../shared/schemas/checks'
+import type { IssuedSighting, IssuedWatch } from '../../shared/types/drill'
+import { isUntilCall, maskUrlFor, viewsWithRenderings } from './drill-plan'
+import type { ContentVariant, DeckContent, PlannedChoice } from './drill-plan'
+import type { Actor } from './gate'
+import { hasRole } from './gate'
+import { newId } from './ids'
+import { loadDrillContent, watchDay } from './watch'
+
+const fail = (statusCode: number, message: string) => createError({ statusCode, message })
+const noCheck = () => fail(404, 'No such check.')
+const noAttempt = () => fail(404, 'No such check attempt.')
+export const CHECK_RETAKE_MESSAGE = 'This check is already taken; ask your lead to reset it.'
+
+// A check shows targets at the size of the ladder's middle rung (a track held 1 to 7 days):
+// smaller than a new track's, larger than a well-held one's (product rule for the ladder).
+const CHECK_PX_RUNG = 2
+
+export interface CheckRandom { rng: () => number, randomBytes: (size: number) => Uint8Array }
+const serverRandom: CheckRandom = { rng: () => randomInt(0, 2 ** 32) / 2 ** 32, randomBytes: n => cryptoRandomBytes(n) }
+
+interface CheckRow {
+  id: string
+  deckId: string
+  deckTitle: string
+  deckOwner: string
+  deckStatus: string
+  title: string
+  sightingCount: number
+  exposureMs: number
+  conditions: string
+  aspects: string
+  passMark: number
+  createdBy: string
+  createdAt: number
+  attempts: number
+}
+
+const CHECK_SELECT = `SELECT c.id, c.deck_id AS deckId, d.title AS deckTitle, d.owner_id AS deckOwner, d.status AS deckStatus, c.title,
+  c.sighting_count AS sightingCount, c.exposure_ms AS exposureMs, c.conditions, c.aspects, c.pass_mark AS passMark,
+  c.created_by AS createdBy, c.created_at AS createdAt, (SELECT count(*) FROM check_attempts a WHERE a.check_id = c.id) AS attempts
+  FROM checks c JOIN decks d ON d.id = c.deck_id`
+
+interface AttemptRow {
+  id: string
+  checkId: string
+  userId: string
+  personName: string
+  watchId: string | null
+  status: AttemptStatus
+  score: number | null
+  passed: number | null
+  signedOffBy: string | null
+  signedOffAt: number | null
+  startedAt: number
+  finishedAt: number | null
+}
+
+const ATTEMPT_SELECT = `SELECT a.id, a.check_id AS checkId, a.user_id AS userId, u.name AS personName, a.watch_id AS watchId, a.status,
+  a.score, a.passed, a.signed_off_by AS signedOffBy, a.signed_off_at AS signedOffAt, a.started_at AS startedAt, a.finished_at AS finishedAt
+  FROM check_attempts a JOIN users u ON u.id = a.user_id`
+
+function toView(r: CheckRow): CheckView {
+  return {
+    id: r.id, deckId: r.deckId, deckTitle: r.deckTitle, title: r.title, sightingCount: r.sightingCount, exposureMs: r.exposureMs,
+    conditions: JSON.parse(r.conditions) as string[], aspects: JSON.parse(r.aspects) as string[], passMark: r.passMark,
+    createdBy: r.createdBy, createdAt: r.createdAt, attempts: r.attempts,
+  }
+}
+
+function toSummary(r: AttemptRow): AttemptSummary {
+  return {
+    id: r.id, checkId: r.checkId, userId: r.userId, personName: r.personName, status: r.status, score: r.score,
+    passed: r.passed === null ? null : r.passed === 1, startedAt: r.startedAt, finishedAt: r.finishedAt,
+    signedOffBy: r.signedOffBy, signedOffAt: r.signedOffAt,
+  }
+}
+
+function checkRow(sqlite: Database, id: string) {
+  return sqlite.prepare(`${CHECK_SELECT} WHERE c.id = ?`).get(id) as CheckRow | undefined
+}
+
+function attemptRow(sqlite: Database, id: string) {
+  return sqlite.prepare(`${ATTEMPT_SELECT} WHERE a.id = ?`).get(id) as AttemptRow | undefined
+}
+
+const ownsCheck = (actor: Actor, c: CheckRow) => c.createdBy === actor.id || c.deckOwner === actor.id
+
+// Is the check's deck assigned to one of the actor's crews (and published, for trainees and leads)?
+function assignedToActor(sqlite: Database, actor: Actor, deckId: string) {
+  if (!actor.crewIds.length) return false
+  return !!sqlite.prepare(`SELECT 1 FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id WHERE dc.deck_id = ? AND d.status = 'published'
+    AND dc.crew_id IN (SELECT value FROM json_each(?)) LIMIT 1`).get(deckId, JSON.stringify(actor.crewIds))
+}
+
+// Does the actor lead a crew the person is in?
+function leadsPerson(sqlite: Database, actor: Actor, userId: string) {
+  if (!hasRole(actor, 'lead')) return false
+  return !!sqlite.prepare(`SELECT 1 FROM memberships mine JOIN memberships theirs ON theirs.crew_id = mine.crew_id
+    WHERE mine.user_id = ? AND theirs.user_id = ? LIMIT 1`).get(actor.id, userId)
+}
+
+// ---------------------------------------------------------------- definitions
+
+/** Which (type, aspect, condition) combinations the deck can show under the check's settings. */
+function checkCombos(content: DeckContent, aspects: readonly string[], conditions: readonly string[]) {
+  const types = new Set(content.types.map(t => t.id))
+  const out = new Map<string, { targetTypeId: string, aspect: string, condition: string, variants: ContentVariant[][] }>()
+  for (const v of viewsWithRenderings(content)) {
+    if (!types.has(v.targetTypeId) || !aspects.includes(v.aspect)) continue
+    for (const condition of conditions) {
+      const variants = v.variants.filter(x => x.condition === condition)
+      if (!variants.length) continue
+      const key = `${v.targetTypeId}|${v.aspect}|${condition}`
+      const combo = out.get(key) ?? { targetTypeId: v.targetTypeId, aspect: v.aspect, condition, variants: [] }
+      combo.variants.push(variants)
+      out.set(key, combo)
+    }
+  }
+  return [...out.values()]
+}
+
+// A check needs a view at every chosen aspect and at least two target types to show.
+function assertDrawable(content: DeckContent, aspects: readonly string[], conditions: readonly string[]) {
+  const rendered = viewsWithRenderings(content)
+  const missing = aspects.filter(a => !rendered.some(v => v.aspect === a))
+  if (missing.length) throw fail(400, `aspects: The deck has no view at ${missing.join(', ')}; choose aspects it has views of.`)
+  const combos = checkCombos(content, aspects, conditions)
+  if (!combos.length) throw fail(400, 'conditions: The deck has no rendering of these aspects under these conditions.')
+  if (new Set(combos.map(c => c.targetTypeId)).size < 2) {
+    throw fail(400, 'aspects: These aspects and conditions show fewer than two target types; a check needs at least two.')
+  }
+}
+
+function requireOwnDeckForCheck(sqlite: Database, actor: Actor, deckId: string): DeckContent {
+  const deck = sqlite.prepare('SELECT owner_id AS ownerId, status FROM decks WHERE id = ?').get(deckId) as { ownerId: string, status: string } | undefined
+  if (!deck) throw fail(404, 'deckId: No such deck.')
+  if (deck.ownerId !== actor.id) throw fail(403, 'Only the deck\'s own instructor defines checks on it.')
+  if (deck.status === 'archived') throw fail(409, 'This deck is archived; checks are defined on live decks.')
+  return loadDrillContent(sqlite, deckId)!
+}
+
+export function createCheck(sqlite: Database, actor: Actor, input: CheckInput, nowMs = Date.now()): CheckView {
+  const content = requireOwnDeckForCheck(sqlite, actor, input.deckId)
+  assertDrawable(content, input.aspects, input.conditions)
+  const id = newId()
+  sqlite.prepare(`INSERT INTO checks (id, deck_id, title, sighting_count, exposure_ms, conditions, aspects, pass_mark, created_by, created_at, updated_at)
+    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(id, input.deckId, input.title, input.sightingCount, input.exposureMs,
+    JSON.stringify(input.conditions), JSON.stringify(input.aspects), input.passMark, actor.id, nowMs, nowMs)
+  return toView(checkRow(sqlite, id)!)
+}
+
+/** The check as its viewer may see it: its instructor, an admin, or a trainee or lead of a crew its deck is assigned to. */
+export function readCheck(sqlite: Database, actor: Actor, id: string): CheckView {
+  const c = checkRow(sqlite, id)
+  if (!c) throw noCheck()
+  const visible = hasRole(actor, 'admin') || ownsCheck(actor, c)
+    || (hasRole(actor, 'trainee', 'lead') && assignedToActor(sqlite, actor, c.deckId))
+  if (!visible) throw noCheck()
+  return toView(c)
+}
+
+// Its instructor may change or delete it while nobody has taken it.
+function requireEditableCheck(sqlite: Database, actor: Actor, id: string): CheckRow {
+  const c = checkRow(sqlite, id)
+  if (!c) throw noCheck()
+  if (!ownsCheck(actor, c)) throw fail(403, 'Only the check\'s own instructor changes it.')
+  if (c.attempts > 0) throw fail(409, 'This check has been taken; it can no longer be changed or deleted. Define a new one.')
+  return c
+}
+
+export function updateCheck(sqlite: Database, actor: Actor, id: string, patch: CheckPatchInput, nowMs = Date.now()): CheckView {
+  return sqlite.transaction(() => {
+    const c = requireEditableCheck(sqlite, actor, id)
+    const aspects = patch.aspects ?? JSON.parse(c.aspects) as string[]
+    const conditions = patch.conditions ?? JSON.parse(c.conditions) as string[]
+    if (patch.aspects || patch.conditions) assertDrawable(loadDrillContent(sqlite, c.deckId)!, aspects, conditions)
+    sqlite.prepare(`UPDATE checks SET title = ?, sighting_count = ?, exposure_ms = ?, conditions = ?, aspects = ?, pass_mark = ?, updated_at = ?
+      WHERE id = ?`).run(patch.title ?? c.title, patch.sightingCount ?? c.sightingCount, patch.exposureMs ?? c.exposureMs,
+      JSON.stringify(conditions), JSON.stringify(aspects), patch.passMark ?? c.passMark, nowMs, id)
+    return toView(checkRow(sqlite, id)!)
+  }).immediate()
+}
+
+export function deleteCheck(sqlite: Database, actor: Actor, id: string) {
+  sqlite.transaction(() => {
+    requireEditableCheck(sqlite, actor, id)
+    sqlite.prepare('DELETE FROM checks WHERE id = ?').run(id)
+  }).immediate()
+}
+
+/** The lists of /checks, one section per role the actor holds. */
+export function listChecks(sqlite: Database, actor: Actor): CheckLists {
+  const out: CheckLists = { defined: [], toTake: [], crews: [] }
+  if (hasRole(actor, 'admin')) {
+    out.defined = (sqlite.prepare(`${CHECK_SELECT} ORDER BY c.created_at DESC`).all() as CheckRow[]).map(toView)
+  }
+  else if (hasRole(actor, 'instructor')) {
+    out.defined = (sqlite.prepare(`${CHECK_SELECT} WHERE c.created_by = ? OR d.owner_id = ? ORDER BY c.created_at DESC`)
+      .all(actor.id, actor.id) as CheckRow[]).map(toView)
+  }
+  const crews = JSON.stringify(actor.crewIds)
+  const assigned = sqlite.prepare(`${CHECK_SELECT} WHERE d.status = 'published'
+    AND c.deck_id IN (SELECT deck_id FROM deck_crews WHERE crew_id IN (SELECT value FROM json_each(?))) ORDER BY c.created_at DESC`)
+  if (hasRole(actor, 'trainee') && actor.crewIds.length) {
+    const newest = sqlite.prepare(`${ATTEMPT_SELECT} WHERE a.check_id = ? AND a.user_id = ? ORDER BY a.started_at DESC LIMIT 1`)
+    out.toTake = (assigned.all(crews) as CheckRow[]).map((c): CheckToTake => {
+      const a = newest.get(c.id, actor.id) as AttemptRow | undefined
+      return {
+        ...toView(c),
+        status: a?.status ?? 'none',
+        attemptId: a?.id ?? null,
+        score: a && a.status !== 'reset' ? a.score : null,
+        passed: a && a.status !== 'reset' && a.passed !== null ? a.passed === 1 : null,
+      }
+    })
+  }
+  if (hasRole(actor, 'lead') && actor.crewIds.length) {
+    const crewRows = sqlite.prepare('SELECT id, name FROM crews WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name').all(crews) as { id: string, name: string }[]
+    const ofCrew = sqlite.prepare(`${CHECK_SELECT} WHERE d.status = 'published'
+      AND c.deck_id IN (SELECT deck_id FROM deck_crews WHERE crew_id = ?) ORDER BY c.created_at DESC`)
+    const attempts = sqlite.prepare(`${ATTEMPT_SELECT} WHERE a.check_id = ?
+      AND a.user_id IN (SELECT user_id FROM memberships WHERE crew_id = ?) ORDER BY a.started_at DESC`)
+    out.crews = crewRows.map((crew): CrewChecks => ({
+      crewId: crew.id,
+      crewName: crew.name,
+      checks: (ofCrew.all(crew.id) as CheckRow[]).map(c => ({
+        ...toView(c),
+        attemptsOfCrew: (attempts.all(c.id, crew.id) as AttemptRow[]).map(toSummary),
+      })),
+    }))
+  }
+  return out
+}
+
+// ---------------------------------------------------------------- taking a check
+
+export interface IssuedCheck extends IssuedWatch {
+  id: string
+  attemptId: string
+  checkId: string
+  title: string
+  sightingCount: number
+  exposureMs: number
+}
+
+function crewConfusions(sqlite: Database, userId: string, deckId: string) {
+  const out = new Map<string, Map<string, number>>()
+  const rows = sqlite.prepare(`SELECT c.target_type_id AS shown, c.called_type_id AS called, count(*) AS n FROM calls c
+    WHERE c.deck_id = ? AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
+    AND c.user_id IN (SELECT m2.user_id FROM memberships m1 JOIN memberships m2 ON m2.crew_id = m1.crew_id WHERE m1.user_id = ?)
+    GROUP BY 1, 2`).all(deckId, userId) as { shown: string, called: string, n: number }[]
+  for (const r of rows) {
+    if (!out.has(r.shown)) out.set(r.shown, new Map())
+    out.get(r.shown)!.set(r.called, r.n)
+  }
+  return out
+}
+
+/**
+ * The order of a check: `count` draws among the combinations, never the same target type twice
+ * in a row, each draw among the least-used combinations so that the check covers them evenly.
+ */
+export function drawCheckOrder<T extends { targetTypeId: string }>(combos: readonly T[], count: number, rng: () => number): T[] {
+  const used = new Map<T, number>(combos.map(c => [c, 0]))
+  const out: T[] = []
+  for (let i = 0; i < count; i++) {
+    const prev = out[out.length - 1]?.targetTypeId
+    const allowed = combos.filter(c => c.targetTypeId !== prev)
+    const pool = allowed.length ? allowed : [...combos]
+    const least = Math.min(...pool.map(c => used.get(c)!))
+    const fewest = pool.filter(c => used.get(c) === least)
+    const pick = fewest[randomIndex(rng, fewest.length)]!
+    used.set(pick, least + 1)
+    out.push(pick)
+  }
+  return out
+}
+
+/** A trainee's attempt: 409 if one was taken and not reset; else a watch of kind 'check' issued whole. */
+export function startCheckAttempt(sqlite: Database, actor: Actor, checkId: string, nowMs = Date.now(), random: CheckRandom = serverRandom): IssuedCheck {
+  return sqlite.transaction(() => {
+    const c = checkRow(sqlite, checkId)
+    if (!c || !assignedToActor(sqlite, actor, c.deckId)) throw noCheck()
+    const taken = sqlite.prepare(`SELECT 1 FROM check_attempts WHERE check_id = ? AND user_id = ? AND status <> 'reset'`).get(checkId, actor.id)
+    if (taken) throw fail(409, CHECK_RETAKE_MESSAGE)
+    const content = loadDrillContent(sqlite, c.deckId)!
+    const combos = checkCombos(content, JSON.parse(c.aspects) as string[], JSON.parse(c.conditions) as string[])
+    if (new Set(combos.map(x => x.targetTypeId)).size < 2) {
+      throw fail(409, 'The deck no longer has views for this check\'s aspects and conditions; ask your instructor.')
+    }
+    const deck = content.deck
+    const windowMs = Math.max(deck.windowMs, c.exposureMs)
+    const confusions = crewConfusions(sqlite, actor.id, deck.id)
+    const watchId = newId()
+    const day = watchDay(nowMs)
+    sqlite.prepare(`INSERT INTO watches (id, user_id, deck_id, kind, check_id, day, status, created_at, updated_at)
+      VALUES (?, ?, ?, 'check', ?, ?, 'open', ?, ?)`).run(watchId, actor.id, deck.id, checkId, day, nowMs, nowMs)
+    const insert = sqlite.prepare(`INSERT INTO sightings (id, watch_id, user_id, track_id, target_type_id, position, variant_id, aspect,
+      condition, range_m, binoculars, apparent_px, exposure_ms, window_ms, choices, answer_choice_id, reshow_of, issued_at)
+      VALUES (?, ?, ?, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL, ?)`)
+    const [lo, hi] = PX_BY_RUNG[CHECK_PX_RUNG]!
+    const sightings: IssuedSighting[] = drawCheckOrder(combos, c.sightingCount, random.rng).map((combo, position) => {
+      const type = content.types.find(t => t.id === combo.targetTypeId)!
+      const renderings = combo.variants[randomIndex(random.rng, combo.variants.length)]!
+      // The phone-sized rendering: the narrowest at least 320 px wide.
+      const variant = [...renderings].sort((a, b) => a.width - b.width).find(x => x.width >= 320) ?? renderings[0]!
+      const placed = placeRange(type.sizeM, type.category, lo + random.rng() * (hi - lo))
+      let choices: PlannedChoice[] = []
+      let answerChoiceId: string
+      if (deck.answerMode === 'typed') {
+        answerChoiceId = makeChoiceIds(1, random.randomBytes)[0]!
+      }
+      else {
+        const picked = pickChoices({
+          correct: type, candidates: content.types, lookAlikeIds: content.lookAlikes.get(type.id),
+          crewConfusions: confusions.get(type.id), count: deck.choiceCount, rng: random.rng,
+        })
+        const ids = makeChoiceIds(picked.length, random.randomBytes)
+        choices = picked.map((p, i) => ({ id: ids[i]!, label: p.label, typeId: p.typeId }))
+        answerChoiceId = choices.find(x => x.typeId === type.id)!.id
+      }
+      const id = newId()
+      insert.run(id, watchId, actor.id, type.id, position, variant.id, combo.aspect, combo.condition, placed.rangeM, placed.binoculars ? 1 : 0,
+        placed.apparentPx, c.exposureMs, windowMs, JSON.stringify(choices), answerChoiceId, nowMs)
+      return {
+        id,
+        position,
+        imageUrl: `/images/${variant.file}`,
+        maskUrl: maskUrlFor(id),
+        choices: choices.map(x => ({ id: x.id, label: x.label })),
+        answerMode: deck.answerMode === 'typed' ? 'typed' : 'choices',
+        exposureMs: c.exposureMs,
+        untilCall: isUntilCall(c.exposureMs),
+        windowMs,
+        apparentPx: Math.round(placed.apparentPx),
+        rangeM: Math.round(placed.rangeM),
+        binoculars: placed.binoculars,
+        width: variant.width,
+        height: variant.height,
+        called: false,
+        reshow: false,
+      }
+    })
+    const attemptId = newId()
+    sqlite.prepare(`INSERT INTO check_attempts (id, check_id, user_id, watch_id, status, started_at) VALUES (?, ?, ?, ?, 'running', ?)`)
+      .run(attemptId, checkId, actor.id, watchId, nowMs)
+    return {
+      id: watchId, deckId: deck.id, deckTitle: deck.title, day, hesitationMs: deck.hesitationMs, sightings, nextDueAt: null,
+      attemptId, checkId, title: c.title, sightingCount: c.sightingCount, exposureMs: c.exposureMs,
+    }
+  }).immediate()
+}
+
+export interface CheckCallFields {
+  sightingId: string
+  userId: string
+  watchId: string
+  deckId: string
+  targetTypeId: string
+  calledTypeId: string | null
+  aspect: string
+  condition: string
+  choiceId: string | null
+  typed: string | null
+  correct: boolean
+  grade: CallGrade
+  anticipation: boolean
+  latencyMs: number | null
+  framesShown: number
+  frameIntervalMs: number
+  calledAt: number
+  offline: boolean
+}
+
+/**
+ * A call on a check's sighting: stored once with no track (trackId null), answered with no
+ * feedback; the last call of the attempt finishes it. A finished or reset attempt takes no call.
+ */
+export function recordCheckCall(sqlite: Database, f: CheckCallFields, nowMs = Date.now()): CheckCallRecorded {
+  return sqlite.transaction(() => {
+    const again = sqlite.prepare('SELECT result FROM calls WHERE sighting_id = ?').get(f.sightingId) as { result: string } | undefined
+    if (again) return JSON.parse(again.result) as CheckCallRecorded
+    const attempt = sqlite.prepare('SELECT id, status FROM check_attempts WHERE watch_id = ?').get(f.watchId) as { id: string, status: string } | undefined
+    if (!attempt || attempt.status !== 'running') throw fail(409, 'This check attempt is over; its sightings take no more calls.')
+    const result: CheckCallRecorded = { recorded: true, sightingId: f.sightingId }
+    sqlite.prepare(`INSERT INTO calls (id, sighting_id, user_id, deck_id, track_id, target_type_id, called_type_id, aspect, condition,
+      choice_id, typed, correct, grade, anticipation, latency_ms, frames_shown, frame_interval_ms, called_at, received_at, offline,
+      before, after, result) VALUES (?, ?, ?, ?, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL, NULL, ?)
+      ON CONFLICT (sighting_id) DO NOTHING`).run(newId(), f.sightingId, f.userId, f.deckId, f.targetTypeId, f.calledTypeId, f.aspect,
+      f.condition, f.choiceId, f.typed, f.correct ? 1 : 0, f.grade, f.anticipation ? 1 : 0, f.latencyMs, f.framesShown, f.frameIntervalMs,
+      f.calledAt, nowMs, f.offline ? 1 : 0, JSON.stringify(result))
+    const left = (sqlite.prepare(`SELECT count(*) AS n FROM sightings s WHERE s.watch_id = ?
+      AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id)`).get(f.watchId) as { n: number }).n
+    if (left === 0) finishAttemptRow(sqlite, attempt.id, nowMs)
+    return result
+  }).immediate()
+}
+
+/** score = right calls / sightings of the attempt (an uncalled sighting counts as wrong); passed when score >= pass mark. */
+export function checkScore(right: number, count: number, passMark: number) {
+  const score = count > 0 ? right / count : 0
+  // Compared on the counts, so that 3 of 5 passes a mark of 0.6 despite binary fractions.
+  return { score, passed: right >= passMark * count - 1e-9 }
+}
+
+function finishAttemptRow(sqlite: Database, attemptId: string, nowMs: number) {
+  const a = sqlite.prepare(`SELECT a.watch_id AS watchId, c.pass_mark AS passMark FROM check_attempts a JOIN checks c ON c.id = a.check_id
+    WHERE a.id = ?`).get(attemptId) as { watchId: string, passMark: number }
+  const counts = sqlite.prepare(`SELECT count(*) AS n, coalesce(sum(c.correct), 0) AS right FROM sightings s
+    LEFT JOIN calls c ON c.sighting_id = s.id WHERE s.watch_id = ?`).get(a.watchId) as { n: number, right: number }
+  const { score, passed } = checkScore(counts.right, counts.n, a.passMark)
+  sqlite.prepare(`UPDATE check_attempts SET status = 'finished', score = ?, passed = ?, finished_at = ? WHERE id = ? AND status = 'running'`)
+    .run(score, passed ? 1 : 0, nowMs, attemptId)
+  sqlite.prepare(`UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`).run(nowMs, nowMs, a.watchId)
+}
+
+/** The trainee ends a running attempt early: the sightings not called count as wrong. */
+export function finishCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now()): CheckResult {
+  sqlite.transaction(() => {
+    const a = attemptRow(sqlite, attemptId)
+    if (!a || a.userId !== actor.id) throw noAttempt()
+    if (a.status !== 'running') throw fail(409, 'This check attempt is already over.')
+    finishAttemptRow(sqlite, attemptId, nowMs)
+  }).immediate()
+  return checkResult(sqlite, attemptId)
+}
+
+// ---------------------------------------------------------------- results, reset, sign-off
+
+/** Who may read a result: the trainee once it is finished, a lead of their crew, the check's instructor, an admin. */
+export function requireResultAccess(sqlite: Database, actor: Actor, attemptId: string) {
+  const a = attemptRow(sqlite, attemptId)
+  if (!a) throw noAttempt()
+  if (hasRole(actor, 'admin') || leadsPerson(sqlite, actor, a.userId)) return a
+  const c = checkRow(sqlite, a.checkId)!
+  if (hasRole(actor, 'instructor') && ownsCheck(actor, c)) return a
+  if (a.userId === actor.id) {
+    if (a.finishedAt === null) throw fail(409, 'The result shows once the check is finished.')
+    return a
+  }
+  throw fail(403, 'You can see the check results of your own crews only.')
+}
+
+interface ResultRow {
+  position: number
+  targetTypeName: string
+  aspect: string
+  condition: string
+  calledName: string | null
+  correct: number | null
+  latencyMs: number | null
+  grade: string | null
+}
+
+export function checkResult(sqlite: Database, attemptId: string): CheckResult {
+  const a = attemptRow(sqlite, attemptId)!
+  const c = checkRow(sqlite, a.checkId)!
+  const rows = a.watchId
+    ? sqlite.prepare(`SELECT s.position, t.name AS targetTypeName, s.aspect, s.condition, ct.name AS calledName, c.correct, c.latency_ms AS latencyMs,
+      c.grade FROM sightings s JOIN target_types t ON t.id = s.target_type_id LEFT JOIN calls c ON c.sighting_id = s.id
+      LEFT JOIN target_types ct ON ct.id = c.called_type_id WHERE s.watch_id = ? ORDER BY s.position`).all(a.watchId) as ResultRow[]
+    : []
+  const signer = a.signedOffBy ? sqlite.prepare('SELECT name FROM users WHERE id = ?').get(a.signedOffBy) as { name: string } | undefined : undefined
+  const crews = (sqlite.prepare(`SELECT c.name FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`)
+    .all(a.userId) as { name: string }[]).map(r => r.name)
+  return {
+    attemptId: a.id,
+    checkId: c.id,
+    title: c.title,
+    deckTitle: c.deckTitle,
+    exposureMs: c.exposureMs,
+    passMark: c.passMark,
+    sightingCount: rows.length || c.sightingCount,
+    person: { id: a.userId, name: a.personName },
+    crews,
+    status: a.status,
+    startedAt: a.startedAt,
+    finishedAt: a.finishedAt,
+    right: rows.filter(r => r.correct === 1).length,
+    score: a.score,
+    passed: a.passed === null ? null : a.passed === 1,
+    signedOff: a.signedOffBy && a.signedOffAt ? { by: a.signedOffBy, name: signer?.name ?? '', at: a.signedOffAt } : null,
+    items: rows.map(r => ({
+      position: r.position,
+      targetTypeName: r.targetTypeName,
+      aspect: r.aspect,
+      condition: r.condition,
+      calledName: r.calledName,
+      correct: r.correct === 1,
+      latencyMs: r.latencyMs,
+      grade: (r.grade ?? 'missed') as CallGrade,
+    })),
+  }
+}
+
+// A lead of a crew the trainee is in; never for one's own attempt.
+function requireLeadOf(sqlite: Database, actor: Actor, attemptId: string): AttemptRow {
+  const a = attemptRow(sqlite, attemptId)
+  if (!a) throw noAttempt()
+  if (!leadsPerson(sqlite, actor, a.userId)) throw fail(403, 'Only a lead of the trainee\'s crew can do this.')
+  if (a.userId === actor.id) throw fail(403, 'Another lead must do this for your own check.')
+  return a
+}
+
+/** The lead lets the trainee take the check again: the attempt reads 'reset', its watch is closed. */
+export function resetCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now()): AttemptSummary {
+  return sqlite.transaction(() => {
+    const a = requireLeadOf(sqlite, actor, attemptId)
+    if (a.status === 'reset') throw fail(409, 'This attempt is already reset.')
+    if (a.signedOffAt) throw fail(409, 'This attempt is signed off; a signed-off check cannot be reset.')
+    sqlite.prepare(`UPDATE check_attempts SET status = 'reset' WHERE id = ?`).run(attemptId)
+    if (a.watchId) sqlite.prepare(`UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`).run(nowMs, nowMs, a.watchId)
+    return toSummary(attemptRow(sqlite, attemptId)!)
+  }).immediate()
+}
+
+/** The lead signs off a finished attempt, once. */
+export function signOffCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now()): AttemptSummary {
+  return sqlite.transaction(() => {
+    const a = requireLeadOf(sqlite, actor, attemptId)
+    if (a.status !== 'finished') throw fail(409, 'Only a finished attempt can be signed off.')
+    if (a.signedOffAt) throw fail(409, 'This attempt is already signed off.')
+    sqlite.prepare('UPDATE check_attempts SET signed_off_by = ?, signed_off_at = ? WHERE id = ?').run(actor.id, nowMs, attemptId)
+    return toSummary(attemptRow(sqlite, attemptId)!)
+  }).immediate()
+}

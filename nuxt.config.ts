@@ -80,7 +80,8 @@ export default defineNuxtConfig({
     },
     workbox: {
       navigateFallback: null,
-      globPatterns: ['**/*.{js,css,woff2,woff,svg,png}'],
+      // json: Nuxt's build manifest (_nuxt/builds), read when a page opens with no connection.
+      globPatterns: ['**/*.{js,css,woff2,woff,svg,png,json}'],
       cleanupOutdatedCaches: true,
       runtimeCaching: [
         {

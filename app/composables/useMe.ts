@@ -1,5 +1,27 @@
 import type { Me, Role } from '#shared/types/roles'
 
+// The phone's copy of the person, for a page opened with no connection (never after a 401).
+const ME_KEY = 'glint-me'
+
+function cachedMe(): Me | null {
+  try {
+    const text = localStorage.getItem(ME_KEY)
+    return text ? JSON.parse(text) as Me : null
+  }
+  catch {
+    return null
+  }
+}
+
+function keepMe(me: Me | null) {
+  if (!import.meta.client) return
+  try {
+    if (me) localStorage.setItem(ME_KEY, JSON.stringify(me))
+    else localStorage.removeItem(ME_KEY)
+  }
+  catch { /* storage full or blocked: no offline copy */ }
+}
+
 // The signed-in person (roles and crews come from the server on every load).
 export function useMe() {
   const me = useState<Me | null>('me', () => null)
@@ -9,9 +31,16 @@ export function useMe() {
     const headers = import.meta.server ? useRequestHeaders(['cookie']) : undefined
     try {
       me.value = await $fetch<Me>('/api/auth/me', { headers })
+      keepMe(me.value)
     }
-    catch {
-      me.value = null
+    catch (e) {
+      const status = (e as { statusCode?: number }).statusCode
+      // No answer at all (no connection): the copy from the last time the server answered.
+      if (import.meta.client && status === undefined) me.value = cachedMe()
+      else {
+        me.value = null
+        if (status === 401) keepMe(null)
+      }
     }
     loaded.value = true
     return me.value
@@ -22,10 +51,11 @@ export function useMe() {
   async function signOut() {
     await $fetch('/api/auth/logout', { method: 'POST' }).catch(() => {})
     me.value = null
+    keepMe(null)
     await navigateTo('/login')
   }
 
-  return { me, loaded, refresh, has, signOut }
+  return { me, loaded, refresh, has, signOut, keepMe }
 }
 
 // A readable message from a failed $fetch.

@@ -1,15 +1,26 @@
 // The running watch on the phone: its sightings in the order still to come, the calls made, the
 // preloaded and decoded images, and the frame log the tests read (window.__glintFrames).
+// Offline: the watch and its pack are kept in IndexedDB; calls made with no connection are graded
+// here with the shared gradeCall, queued with their own time and sent in order when it returns.
 import { defineStore } from 'pinia'
-import type { CallResult, IssuedSighting, IssuedWatch } from '#shared/types/drill'
+import type { CallResult, IssuedSighting, IssuedWatch, PackSighting, WatchPack } from '#shared/types/drill'
 import type { CallInput } from '#shared/schemas/drill'
+import { gradeCall } from '#shared/utils/grade'
+import { matchTypedAnswer } from '#shared/utils/typed-answer'
+import { isNetworkFailure, offlineWatch } from '~/composables/useOfflineWatch'
+import type { QueuedCall, ShownResult, StoredWatch } from '~/composables/useOfflineWatch'
 
 // Other sightings between a missed one and its re-show (product.md; the server's queue uses the same gap).
 const RESHOW_GAP = 3
+// Retry of a failed sync: doubling from 1 s up to 30 s (common practice, no source).
+const RETRY_FIRST_MS = 1000
+const RETRY_MAX_MS = 30_000
 
 export type WatchPhase = 'idle' | 'loading' | 'running' | 'feedback' | 'summary' | 'error'
 
 export interface FrameEntry { sightingId: string, framesShown: number, frameIntervalMs: number }
+
+export interface SyncNotice { id: string, text: string, key?: number }
 
 declare global {
   interface Window { __glintFrames?: readonly FrameEntry[] }
@@ -21,13 +32,23 @@ export const useWatchStore = defineStore('watch', () => {
   const watch = ref<IssuedWatch | null>(null)
   const queue = ref<IssuedSighting[]>([])
   const index = ref(0)
-  const results = ref<CallResult[]>([])
+  const results = ref<ShownResult[]>([])
   const voided = ref(0)
   const phase = ref<WatchPhase>('idle')
   const error = ref<string | null>(null)
   const loaded = ref(0)
   const images = shallowRef(new Map<string, LoadedImage>())
+  // calls kept on the phone until the server has them
+  const waiting = ref(0)
+  const syncing = ref(false)
+  // refused calls and other-device answers, shown until the trainee has read them
+  const notices = ref<SyncNotice[]>([])
   const frames: FrameEntry[] = []
+  let pack: WatchPack | null = null
+  let extra: IssuedSighting[] = []
+  let userId = ''
+  let retryMs = RETRY_FIRST_MS
+  let retryTimer: ReturnType<typeof setTimeout> | undefined
 
   const current = computed(() => queue.value[index.value] ?? null)
   const lastResult = computed(() => results.value[results.value.length - 1] ?? null)
@@ -70,21 +91,79 @@ export const useWatchStore = defineStore('watch', () => {
     images.value = map
   }
 
+  // Each image fetched once, so the service worker keeps it for a watch with no connection.
+  function warm(urls: string[]) {
+    return Promise.allSettled([...new Set(urls)].map(u => fetch(u, { credentials: 'same-origin' })))
+  }
+
+  async function persist() {
+    const w = watch.value
+    if (!import.meta.client || !w?.id || !userId) return
+    const answered = new Set(results.value.map(r => r.sightingId))
+    const record: StoredWatch = {
+      id: w.id,
+      userId,
+      watch: w,
+      pack,
+      extra,
+      left: queue.value.slice(index.value).filter(s => !answered.has(s.id)).map(s => s.id),
+      results: results.value,
+      voided: voided.value,
+      savedAt: Date.now(),
+    }
+    await offlineWatch.save(record).catch(() => {})
+  }
+
+  async function countWaiting() {
+    if (!import.meta.client || !userId) return
+    const all = await offlineWatch.queued(userId).catch(() => [] as QueuedCall[])
+    waiting.value = all.filter(c => c.status === 'waiting').length
+    const shown = new Set(notices.value.map(n => n.id))
+    for (const c of all) {
+      if (c.status === 'refused' && !shown.has(`refused-${c.key}`)) {
+        notices.value = [...notices.value, { id: `refused-${c.key}`, key: c.key, text: `A call was not counted: ${c.reason}` }]
+      }
+    }
+  }
+
+  /** Binds the store to the signed-in person and sends what is waiting. */
+  async function attach(id: string) {
+    userId = id
+    await countWaiting()
+    void sync()
+  }
+
   async function start(deckId?: string) {
     phase.value = 'loading'
     error.value = null
+    let w: IssuedWatch
     try {
-      const w = await useWatchApi().issue(deckId)
+      w = await useWatchApi().issue(deckId)
+    }
+    catch (e) {
+      if (isNetworkFailure(e) && await resume()) return
+      error.value = errorMessage(e)
+      phase.value = 'error'
+      return
+    }
+    try {
+      const waitingIds = new Set((await offlineWatch.queued(userId).catch(() => [] as QueuedCall[])).map(c => c.sightingId))
+      const stored = w.id ? await offlineWatch.get(w.id).catch(() => undefined) : undefined
       watch.value = w
-      queue.value = w.sightings.filter(s => !s.called)
+      // Calls still on the phone are not shown again: the server will have them.
+      queue.value = w.sightings.filter(s => !s.called && !waitingIds.has(s.id))
       index.value = 0
-      results.value = []
+      results.value = stored?.results.filter(r => waitingIds.has(r.sightingId)) ?? []
       voided.value = 0
+      extra = []
       if (!queue.value.length) {
         phase.value = 'summary'
         return
       }
-      await preload(queue.value.flatMap(s => [s.imageUrl, s.maskUrl]))
+      pack = w.id ? await useWatchApi().pack(w.id).catch(() => stored?.pack ?? null) : null
+      const urls = queue.value.flatMap(s => [s.imageUrl, s.maskUrl])
+      await Promise.all([preload(urls), warm(urls)])
+      await persist()
       phase.value = 'running'
     }
     catch (e) {
@@ -93,26 +172,178 @@ export const useWatchStore = defineStore('watch', () => {
     }
   }
 
+  /** The stored watch with no connection: true when there is one to go on with. */
+  async function resume() {
+    if (!import.meta.client || !userId) return false
+    const s = await offlineWatch.latest(userId).catch(() => null)
+    if (!s) return false
+    const all = new Map([...(s.pack?.sightings ?? s.watch.sightings), ...s.extra].map(x => [x.id, x]))
+    const left = s.left.map(id => all.get(id)).filter((x): x is IssuedSighting => !!x)
+    if (!left.length && !waiting.value) return false
+    watch.value = s.watch
+    pack = s.pack
+    extra = s.extra
+    results.value = s.results
+    voided.value = s.voided
+    queue.value = left
+    index.value = 0
+    if (!left.length) {
+      phase.value = 'summary'
+      return true
+    }
+    try {
+      await preload(left.flatMap(x => [x.imageUrl, x.maskUrl]))
+    }
+    catch {
+      error.value = 'The images of this watch are not on this phone. Open the watch again when you are back online.'
+      phase.value = 'error'
+      return true
+    }
+    phase.value = 'running'
+    return true
+  }
+
+  // The phone's grade: the same gradeCall and the pack's answer (the server's grade replaces it).
+  function gradeHere(s: IssuedSighting, body: CallInput): ShownResult {
+    const p = pack?.sightings.find(x => x.id === s.id) as PackSighting | undefined
+    const calledAt = body.calledAt ?? Date.now()
+    if (!p) {
+      return {
+        sightingId: s.id, grade: 'missed', correct: false, anticipation: false, calledChoiceId: body.choiceId ?? null,
+        answer: { id: '', choiceId: null, name: '', features: {} }, latencyMs: body.latencyMs, calledAt, track: { stage: 'new', due: calledAt }, local: true,
+      }
+    }
+    let correct = false
+    if (body.typed !== undefined) correct = matchTypedAnswer(body.typed, pack!.names, p.answer.id).correct
+    else if (body.choiceId) correct = body.choiceId === p.answer.choiceId
+    const noCall = !body.choiceId && body.typed === undefined
+    const { grade, anticipation } = gradeCall({
+      correct,
+      latencyMs: noCall ? null : body.latencyMs,
+      hesitationMs: Math.min(p.hesitationMs, p.windowMs),
+      windowMs: p.windowMs,
+    })
+    return {
+      sightingId: s.id, grade, correct, anticipation, calledChoiceId: body.choiceId ?? null, answer: p.answer,
+      latencyMs: body.latencyMs, calledAt, track: { stage: 'new', due: calledAt }, local: true,
+    }
+  }
+
+  function showResult(r: ShownResult) {
+    const i = results.value.findIndex(x => x.sightingId === r.sightingId)
+    const next = results.value.slice()
+    if (i >= 0) next[i] = r
+    else next.push(r)
+    results.value = next
+  }
+
+  async function addAppended(appended: IssuedSighting[] | undefined, gap = RESHOW_GAP) {
+    if (!appended?.length) return
+    extra = [...extra, ...appended]
+    await preload(appended.flatMap(a => [a.imageUrl, a.maskUrl])).catch(() => {})
+    const q = queue.value.slice()
+    q.splice(Math.min(q.length, index.value + 1 + gap), 0, ...appended)
+    queue.value = q
+  }
+
+  async function queueCall(s: IssuedSighting, body: CallInput) {
+    showResult(gradeHere(s, body))
+    await offlineWatch.enqueue({ userId, watchId: watch.value!.id!, sightingId: s.id, body, status: 'waiting', queuedAt: Date.now() })
+    await countWaiting()
+    await persist()
+    scheduleSync(navigator.onLine ? retryMs : null)
+  }
+
   async function call(body: CallInput) {
     const s = current.value
     if (!s || phase.value !== 'running') return
     frames.push({ sightingId: s.id, framesShown: body.framesShown, frameIntervalMs: body.frameIntervalMs })
     phase.value = 'feedback'
+    const full: CallInput = { ...body, calledAt: Date.now() }
+    // With no connection, or calls still waiting (they go first, in order), the call is queued.
+    if (!navigator.onLine || waiting.value > 0) return queueCall(s, full)
     try {
-      const r = await useWatchApi().call(s.id, { ...body, calledAt: Date.now() })
-      results.value = [...results.value, r]
-      if (r.appended?.length) {
-        await preload(r.appended.flatMap(a => [a.imageUrl, a.maskUrl]))
-        const q = queue.value.slice()
-        // A missed track comes back after at least RESHOW_GAP other sightings (product.md).
-        q.splice(Math.min(q.length, index.value + 1 + RESHOW_GAP), 0, ...r.appended)
-        queue.value = q
-      }
+      const r = await useWatchApi().call(s.id, full)
+      showResult(r)
+      await addAppended(r.appended)
+      await persist()
     }
     catch (e) {
-      error.value = errorMessage(e)
-      phase.value = 'error'
+      if (isNetworkFailure(e)) return queueCall(s, full)
+      showResult({ ...gradeHere(s, full), local: false, refused: errorMessage(e) })
+      await persist()
     }
+  }
+
+  function scheduleSync(delayMs: number | null) {
+    clearTimeout(retryTimer)
+    if (delayMs !== null) retryTimer = setTimeout(() => void sync(), delayMs)
+  }
+
+  /** Sends the queued calls in the order they were made; the server's answer replaces the phone's. */
+  async function sync() {
+    if (!import.meta.client || syncing.value || !userId) return
+    syncing.value = true
+    let failed = false
+    try {
+      for (const c of await offlineWatch.queued(userId)) {
+        if (c.status !== 'waiting') continue
+        let r: CallResult
+        try {
+          r = await useWatchApi().call(c.sightingId, c.body)
+        }
+        catch (e) {
+          if (isNetworkFailure(e)) {
+            failed = true
+            break
+          }
+          // Refused (too late, voided, no such sighting): kept until the trainee has read why.
+          c.status = 'refused'
+          c.reason = errorMessage(e)
+          await offlineWatch.update(c)
+          const shown = results.value.find(x => x.sightingId === c.sightingId)
+          if (shown) showResult({ ...shown, local: false, refused: c.reason })
+          continue
+        }
+        // The first call to reach the server stands; a different one was made on another device.
+        const otherDevice = r.calledChoiceId !== (c.body.choiceId ?? null) || r.latencyMs !== c.body.latencyMs
+        if (otherDevice) {
+          notices.value = [...notices.value, { id: `other-${c.sightingId}`, text: `A sighting was answered on another device first: that answer stands (${r.grade}).` }]
+        }
+        if (watch.value?.id === c.watchId) {
+          showResult({ ...r, otherDevice })
+          await addAppended(r.appended)
+        }
+        await offlineWatch.remove(c.key!)
+        await countWaiting()
+      }
+    }
+    catch {
+      failed = true
+    }
+    finally {
+      syncing.value = false
+    }
+    await countWaiting()
+    await persist()
+    if (failed && waiting.value) {
+      retryMs = Math.min(RETRY_MAX_MS, retryMs * 2)
+      scheduleSync(navigator.onLine ? retryMs : null)
+    }
+    else {
+      retryMs = RETRY_FIRST_MS
+    }
+  }
+
+  /** Back online: send at once. */
+  function online() {
+    retryMs = RETRY_FIRST_MS
+    void sync()
+  }
+
+  async function dismiss(n: SyncNotice) {
+    if (n.key !== undefined) await offlineWatch.remove(n.key).catch(() => {})
+    notices.value = notices.value.filter(x => x.id !== n.id)
   }
 
   function next() {
@@ -124,9 +355,11 @@ export const useWatchStore = defineStore('watch', () => {
       index.value++
       phase.value = 'running'
     }
+    void persist()
   }
 
-  // A sighting interrupted (tab hidden) is not graded: it goes to the end of the queue.
+  // A sighting interrupted (tab hidden) is not graded: it goes to the end of the queue. Online, the
+  // server voids it and issues a copy (so another device cannot call the one that was seen).
   function voidCurrent() {
     const s = current.value
     if (!s || phase.value !== 'running') return
@@ -135,6 +368,18 @@ export const useWatchStore = defineStore('watch', () => {
     q.push(s)
     queue.value = q
     voided.value++
+    void persist()
+    if (!navigator.onLine) return
+    $fetch<{ appended: IssuedSighting[] }>(`/api/sightings/${s.id}/void`, { method: 'POST' })
+      .then(async (v) => {
+        const copy = v.appended[0]
+        if (!copy) return
+        await preload([copy.imageUrl, copy.maskUrl])
+        extra = [...extra, copy]
+        queue.value = queue.value.map(x => (x.id === s.id ? copy : x))
+        await persist()
+      })
+      .catch(() => {})
   }
 
   function reset() {
@@ -145,5 +390,8 @@ export const useWatchStore = defineStore('watch', () => {
     results.value = []
   }
 
-  return { watch, queue, index, results, voided, phase, error, loaded, images, current, lastResult, start, call, next, voidCurrent, reset }
+  return {
+    watch, queue, index, results, voided, phase, error, loaded, images, current, lastResult, waiting, syncing, notices,
+    attach, start, resume, call, sync, online, dismiss, next, voidCurrent, reset,
+  }
 })

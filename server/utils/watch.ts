@@ -17,10 +17,14 @@ import {
 } from './drill-plan'
 import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedSighting, PlanTrack } from './drill-plan'
 import { newId } from './ids'
+import { recordCheckCall } from './checks'
+import type { CheckCallRecorded } from '../../shared/schemas/checks'
 
 const DAY_MS = 86_400_000
 // An offline call may be applied at its own time up to this long after the sighting was issued.
 export const CALL_LATE_LIMIT_MS = 36 * 3_600_000
+// A voided sighting (screen hidden while it showed) takes no call; its copy later in the watch does.
+export const VOIDED_MESSAGE = 'This sighting was voided (the screen was hidden while it showed), so this call is not counted; it is shown again later in the watch.'
 // A call made this long before it reached the server counts as made offline.
 const OFFLINE_AFTER_MS = 30_000
 
@@ -87,11 +91,11 @@ const SQL = {
   watchSightings: `SELECT s.id, s.position, s.track_id AS trackId, s.target_type_id AS targetTypeId, s.exposure_ms AS exposureMs,
     s.window_ms AS windowMs, s.apparent_px AS apparentPx, s.range_m AS rangeM, s.binoculars, s.choices,
     s.answer_choice_id AS answerChoiceId, s.reshow_of AS reshowOf, x.file, x.width, x.height,
-    (SELECT count(*) FROM calls c WHERE c.sighting_id = s.id) AS called
+    (SELECT count(*) FROM calls c WHERE c.sighting_id = s.id) + (s.voided_at IS NOT NULL) AS called
     FROM sightings s JOIN variants x ON x.id = s.variant_id WHERE s.watch_id = ? ORDER BY s.position, s.issued_at`,
   sightingForCall: `SELECT s.id, s.user_id AS userId, s.watch_id AS watchId, s.track_id AS trackId, s.target_type_id AS targetTypeId,
     s.aspect, s.condition, s.position, s.window_ms AS windowMs, s.choices, s.answer_choice_id AS answerChoiceId,
-    s.issued_at AS issuedAt, s.reshow_of AS reshowOf, w.kind, w.deck_id AS deckId, d.hesitation_ms AS hesitationMs,
+    s.issued_at AS issuedAt, s.reshow_of AS reshowOf, s.voided_at AS voidedAt, w.kind, w.deck_id AS deckId, d.hesitation_ms AS hesitationMs,
     d.retention, d.answer_mode AS answerMode
     FROM sightings s JOIN watches w ON w.id = s.watch_id LEFT JOIN decks d ON d.id = w.deck_id WHERE s.id = ?`,
   callResult: `SELECT result FROM calls WHERE sighting_id = ?`,
@@ -104,7 +108,7 @@ const SQL = {
     @correct, @grade, @anticipation, @latencyMs, @framesShown, @frameIntervalMs, @calledAt, @receivedAt, @offline, @before,
     @after, @result) ON CONFLICT (sighting_id) DO NOTHING`,
   uncalled: `SELECT s.id, s.target_type_id AS typeId FROM sightings s WHERE s.watch_id = ? AND s.id <> ?
-    AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY s.position, s.issued_at`,
+    AND s.voided_at IS NULL AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY s.position, s.issued_at`,
   reshowCount: `SELECT count(*) AS n FROM sightings WHERE watch_id = ? AND track_id = ? AND reshow_of IS NOT NULL`,
   setPosition: `UPDATE sightings SET position = ? WHERE id = ?`,
   maxPosition: `SELECT coalesce(max(position), -1) AS p FROM sightings WHERE watch_id = ?`,
@@ -407,6 +411,7 @@ interface CallSightingRow {
   answerChoiceId: string
   issuedAt: number
   reshowOf: string | null
+  voidedAt: number | null
   kind: string
   deckId: string | null
   hesitationMs: number | null
@@ -420,11 +425,12 @@ interface CallSightingRow {
  * call stored once (a unique index: a resend gets the first stored result), a missed track
  * re-shown at least three sightings later. Another trainee's sighting answers 404, as an unknown one.
  */
-export function callSighting(sqlite: Database, userId: string, sightingId: string, input: CallInput, nowMs = Date.now(), random: DrillRandom = serverRandom): CallResult {
+export function callSighting(sqlite: Database, userId: string, sightingId: string, input: CallInput, nowMs = Date.now(), random: DrillRandom = serverRandom): CallResult | CheckCallRecorded {
   const s = stmt(sqlite, 'sightingForCall').get(sightingId) as CallSightingRow | undefined
   if (!s || s.userId !== userId || !s.deckId) throw notFound('No such sighting was issued to you.')
   const stored = stmt(sqlite, 'callResult').get(sightingId) as { result: string } | undefined
   if (stored) return JSON.parse(stored.result) as CallResult
+  if (s.voidedAt !== null) throw createError({ statusCode: 409, message: VOIDED_MESSAGE })
 
   const calledAt = Math.min(Math.max(input.calledAt ?? nowMs, s.issuedAt), nowMs)
   if (calledAt - s.issuedAt > CALL_LATE_LIMIT_MS) {
@@ -456,6 +462,14 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     hesitationMs: Math.min(s.hesitationMs ?? windowMs, windowMs),
     windowMs,
   })
+  // A check's call gives no feedback and leaves the tracks alone (server/utils/checks.ts).
+  if (s.kind === 'check') {
+    return recordCheckCall(sqlite, {
+      sightingId, userId, watchId: s.watchId, deckId: s.deckId, targetTypeId: s.targetTypeId, calledTypeId, aspect: s.aspect,
+      condition: s.condition, choiceId, typed: input.typed ?? null, correct, grade, anticipation, latencyMs,
+      framesShown: input.framesShown, frameIntervalMs: input.frameIntervalMs, calledAt, offline: nowMs - calledAt > OFFLINE_AFTER_MS,
+    }, nowMs)
+  }
 
   return sqlite.transaction(() => {
     const again = stmt(sqlite, 'callResult').get(sightingId) as { result: string } | undefined
@@ -581,4 +595,51 @@ export function watchPack(sqlite: Database, userId: string, watchId: string): Wa
       }
     }),
   }
+}
+
+// ---------------------------------------------------------------- voided sightings
+
+const VOID_SQL = {
+  setVoided: `UPDATE sightings SET voided_at = ? WHERE id = ? AND voided_at IS NULL
+    AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = sightings.id)`,
+  copyOf: `SELECT id FROM sightings WHERE watch_id = ? AND id <> ? AND track_id IS ? AND variant_id IS ? AND issued_at = ?`,
+  copy: `INSERT INTO sightings (id, watch_id, user_id, track_id, target_type_id, position, variant_id, aspect, condition, range_m,
+    binoculars, apparent_px, exposure_ms, window_ms, choices, answer_choice_id, reshow_of, issued_at)
+    SELECT @id, watch_id, user_id, track_id, target_type_id, @position, variant_id, aspect, condition, range_m, binoculars,
+    apparent_px, exposure_ms, window_ms, @choices, @answerChoiceId, reshow_of, @now FROM sightings WHERE id = @from`,
+  row: `SELECT voided_at AS voidedAt, variant_id AS variantId FROM sightings WHERE id = ?`,
+} as const
+
+export interface VoidResult { sightingId: string, voidedAt: number, appended: IssuedSighting[] }
+
+/**
+ * Voids an uncalled sighting of a watch (the screen was hidden while it showed): it takes no call
+ * (409), and a copy with fresh choice ids goes to the end of the same watch. A resend returns the same copy.
+ */
+export function voidSighting(sqlite: Database, userId: string, sightingId: string, nowMs = Date.now()): VoidResult {
+  return sqlite.transaction(() => {
+    const s = stmt(sqlite, 'sightingForCall').get(sightingId) as CallSightingRow | undefined
+    if (!s || s.userId !== userId || !s.deckId) throw notFound('No such sighting was issued to you.')
+    if (s.kind !== 'watch') throw createError({ statusCode: 403, message: 'Only a sighting of a watch can be voided.' })
+    if (stmt(sqlite, 'callResult').get(sightingId)) throw createError({ statusCode: 409, message: 'This sighting was already called; a called sighting cannot be voided.' })
+    const row = sqlite.prepare(VOID_SQL.row).get(sightingId) as { voidedAt: number | null, variantId: string | null }
+    const voidedAt = row.voidedAt ?? nowMs
+    const answerMode = s.answerMode ?? 'choices'
+    const read = (id: string) => (stmt(sqlite, 'watchSightings').all(s.watchId) as StoredSightingRow[]).filter(r => r.id === id).map(r => issuedFromRow(r, answerMode))
+    if (row.voidedAt !== null) {
+      const copy = sqlite.prepare(VOID_SQL.copyOf).get(s.watchId, sightingId, s.trackId, row.variantId, row.voidedAt) as { id: string } | undefined
+      return { sightingId, voidedAt, appended: copy ? read(copy.id) : [] }
+    }
+    sqlite.prepare(VOID_SQL.setVoided).run(voidedAt, sightingId)
+    // Fresh choice ids, so nothing links the copy's buttons to the voided sighting's.
+    const ids = new Map<string, string>()
+    const choices = (JSON.parse(s.choices) as PlannedChoice[]).map((c) => {
+      ids.set(c.id, newId())
+      return { ...c, id: ids.get(c.id)! }
+    })
+    const id = newId()
+    const position = (stmt(sqlite, 'maxPosition').get(s.watchId) as { p: number }).p + 1
+    sqlite.prepare(VOID_SQL.copy).run({ id, position, choices: JSON.stringify(choices), answerChoiceId: ids.get(s.answerChoiceId) ?? s.answerChoiceId, now: voidedAt, from: sightingId })
+    return { sightingId, voidedAt, appended: read(id) }
+  }).immediate()
 }

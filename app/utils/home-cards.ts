@@ -12,5 +12,7 @@ export function homeCardsFor(me: Me | null, _has: (...r: Role[]) => boolean): Ho
   if (_has('trainee')) cards.push({ title: 'Your progress', text: 'Your recognition speed and accuracy over time, what you mix up, and what is missing to be ready.', to: '/people/me', action: 'See your progress' })
   if (_has('instructor')) cards.push({ title: 'Confusions', text: 'Which look-alikes your crews mix up in your decks, by aspect and condition.', to: '/confusions', action: 'See the worst pairs' })
   if (_has('instructor', 'admin')) cards.push({ title: 'Scan drills', text: 'Set sectors, fields, steps and contacts for your crews\' scan drills.', to: '/scan/drills', action: 'Set up scan drills' })
+  if (_has('trainee')) cards.push({ title: 'Checks', text: 'Qualification checks set for your crew: timed, taken once, with your score at the end.', to: '/checks', action: 'See your checks' })
+  else if (_has('instructor', 'lead')) cards.push({ title: 'Checks', text: _has('lead') ? 'Your crews\' check results: sign them off, or reset an attempt to let it be taken again.' : 'Define qualification checks on your decks: sightings, fixed exposure, conditions, aspects and a pass mark.', to: '/checks', action: 'Open checks' })
   return cards
 }

@@ -10,6 +10,8 @@ export function navFor(roles: Role[], has: (...r: Role[]) => boolean): NavItem[]
   if (has('trainee')) items.push({ to: '/people/me', label: 'Progress' })
   if (has('instructor')) items.push({ to: '/decks', label: 'Decks' })
   if (has('instructor', 'admin')) items.push({ to: '/scan/drills', label: 'Scan drills' })
+  if (has('trainee', 'instructor', 'lead')) items.push({ to: '/checks', label: 'Checks' })
   if (has('admin')) items.push({ to: '/admin', label: 'People' }, { to: '/admin/outbox', label: 'Outbox' }, { to: '/admin/audit', label: 'Audit' })
+  items.push({ to: '/settings', label: 'Settings' })
   return roles.length ? items : []
 }

@@ -53,7 +53,7 @@ describe('the shell at phone size (390x844)', () => {
     await page.getByLabel('Password').fill('harbour-lantern-42')
     await page.getByRole('button', { name: 'Sign in' }).click()
     await page.waitForURL(u => u.pathname === '/admin/audit')
-    expect(await page.getByRole('heading', { level: 1 }).textContent()).toContain('Audit log')
+    await page.getByRole('heading', { level: 1, name: 'Audit log' }).waitFor()
     await context.close()
   })
 

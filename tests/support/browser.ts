@@ -27,6 +27,8 @@ export async function signIn(page: Page, email: string, password = 'harbour-lant
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
   await page.waitForURL(u => !u.pathname.startsWith('/login'))
+  // The client-side navigation has rendered the next page once the sign-in form is gone.
+  await page.locator('form').filter({ has: page.getByLabel('Password') }).waitFor({ state: 'detached' })
 }
 
 export async function shot(page: Page, name: string) {

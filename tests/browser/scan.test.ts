@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { PRACTICE_SCAN_SETTINGS } from '../../shared/schemas/scan'
 import { placeScanContacts, scanContactPx } from '../../shared/utils/scan-scene'
 import type { ScanContact } from '../../shared/utils/scan-scene'
-import { PHONE, launch, newPage, shot, signIn } from '../support/browser'
+import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
 
 const settings = { ...PRACTICE_SCAN_SETTINGS, lengthS: 30 }
 
@@ -96,6 +96,17 @@ describe('the scan drill at phone size (390x844)', () => {
     expect(latest.score.sweeping).toBe(false)
     expect(latest.score.reports[0].matched).toBe(true)
     await context.close()
+
+    // The lead sees the pass beside recognition speed on the crew page (desktop).
+    const lead = await newPage(browser, DESKTOP)
+    await signIn(lead.page, 'lead@glint.demo')
+    const crews = await (await lead.page.request.get('/api/auth/me')).json()
+    await lead.page.goto(`/crews/${crews.crews[0].id}`)
+    const row = lead.page.getByTestId('crew-scan').getByRole('row', { name: /Nell Farrowby/ })
+    await row.waitFor()
+    // 22/90 of the sector covered, as the stored pass says (the same coverage as above).
+    expect(await row.textContent()).toMatch(/2\d(\.\d)?%/)
+    await lead.context.close()
   })
 
   it('welcomes a landscape phone (844x390) with the field beside the dial', async () => {

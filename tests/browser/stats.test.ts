@@ -25,7 +25,7 @@ describe('the crew table (lead, desktop)', () => {
     const rows = table.locator('tbody tr', { has: page.locator('th[scope=row]') })
     await expect.poll(() => rows.count()).toBeGreaterThan(0)
 
-    const median = page.getByRole('columnheader', { name: /Median/ })
+    const median = table.getByRole('columnheader', { name: /Median/ })
     await median.getByRole('button').click()
     await expect.poll(() => median.getAttribute('aria-sort')).toBe('ascending')
     const values = (await rows.evaluateAll(trs => trs.map(tr => tr.querySelectorAll('td')[3]?.textContent ?? ''))).map(seconds)

@@ -29,7 +29,7 @@ describe('the installable app', () => {
       expect(scope).toBe(`${inject('baseUrl')}/`.replace(/\/\/$/, '/'))
 
       const href = await page.locator('link[rel="manifest"]').getAttribute('href')
-      expect(href).toBeTruthy()
+      expect(href).toBe('/manifest.webmanifest')
       const res = await page.request.get(href!)
       expect(res.status()).toBe(200)
       const m = await res.json() as { name: string, short_name: string, start_url: string, display: string, icons: ManifestIcon[] }

@@ -78,8 +78,10 @@ describe('the watch page at 390x844', () => {
     for (let n = 0; n < pack.sightings.length; n++) {
       const box = page.getByTestId('sighting-box')
       await expect.poll(() => box.getAttribute('data-state'), { timeout: 10_000 }).toMatch(/shown|masked/)
-      const s = byId.get((await box.getAttribute('data-sighting-id'))!)!
-      expect(s).toBeTruthy()
+      const shownId = (await box.getAttribute('data-sighting-id'))!
+      // The page shows a sighting of this watch's pack, and each one once.
+      expect(byId.has(shownId), shownId).toBe(true)
+      const s = byId.get(shownId)!
       if (s.untilCall) {
         await page.waitForTimeout(700)
         if (!shots.has('sighting')) {

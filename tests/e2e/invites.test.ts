@@ -10,7 +10,8 @@ describe('invitations and resets', () => {
     const inv = await lead.post('/api/invites', { email, role: 'trainee', crewId })
     expect(inv.status).toBe(201)
     const token = await linkFromOutbox(admin, email, '/invite')
-    expect(token).toBeTruthy()
+    // Link tokens are 256 random bits in base64url: 43 characters.
+    expect(token).toMatch(/^[\w-]{43}$/)
     // NIST SP 800-63B §5.1.1: a password on a list of commonly used passwords is refused.
     const common = await new Client().post('/api/invites/accept', { token, name: 'Wren Haldane', password: 'password123' })
     expect(common.status).toBe(400)
@@ -52,7 +53,8 @@ describe('invitations and resets', () => {
     expect(known.status).toBe(200)
     expect(known.body).toEqual(unknown.body)
     const token = await linkFromOutbox(admin, p.email, '/reset')
-    expect(token).toBeTruthy()
+    // Link tokens are 256 random bits in base64url: 43 characters.
+    expect(token).toMatch(/^[\w-]{43}$/)
     const old = p.client
     expect((await new Client().post('/api/auth/reset', { token, password: 'qwertyuiop' })).status).toBe(400)
     expect((await new Client().post('/api/auth/reset', { token, password: 'a quiet grey morning' })).status).toBe(200)

@@ -2,6 +2,8 @@ import { distance } from 'fastest-levenshtein'
 import { describe, expect, it } from 'vitest'
 import { matchTypedAnswer, normaliseName } from '../../../shared/utils/typed-answer'
 
+// Edit distances are checked against fastest-levenshtein, the reference library (Levenshtein
+// distance, V. I. Levenshtein 1966); the forgiving rule itself is common practice, no source.
 // Invented target type names.
 const names = [
   { id: 'halvard', name: 'Halvard' },

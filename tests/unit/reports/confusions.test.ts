@@ -3,7 +3,8 @@ import { confusionMatrix, worstPairs } from '../../../server/core/reports/confus
 import type { ConfusionCall } from '../../../server/core/reports/confusions'
 
 // A known small set of calls; every expected count below is tallied by hand from this list
-// (definition of a confusion matrix: rows are the truth, columns what was called).
+// (definition of a confusion matrix, common practice in classification: rows are the truth,
+// columns what was called; no outside table of values).
 function calls(n: number, targetTypeId: string, calledTypeId: string | null, aspect: string, condition: string): ConfusionCall[] {
   return Array.from({ length: n }, () => ({ targetTypeId, calledTypeId, aspect, condition }))
 }

@@ -1,3 +1,4 @@
+import { SAFETY_LINE, escapeHtml } from '../../shared/utils/mail-text'
 import nodemailer from 'nodemailer'
 import type { Transporter } from 'nodemailer'
 
@@ -49,10 +50,6 @@ export function appUrl(event?: import('h3').H3Event) {
   if (configured) return configured.replace(/\/$/, '')
   return event ? getRequestURL(event).origin : 'http://localhost:3000'
 }
-
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' }[c]!))
-
-export const SAFETY_LINE = 'Never look at or near the sun, through binoculars or with the naked eye. Glint is a training aid: it replaces neither qualified instruction nor your unit\'s own rules for standing a look-out watch.'
 
 // A plain mail with one link, in text and HTML.
 export function linkMail(opts: { to: string, subject: string, lines: string[], link: string, linkLabel: string }): MailMessage {

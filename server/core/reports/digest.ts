@@ -1,8 +1,7 @@
 // Content of the weekly digest to leads and the daily reminder to trainees, in text and HTML.
 // Pure: the scheduled job gathers the numbers and hands the result to the mail transport.
 
-// The product's safety line, at the foot of every mail (product.md, "Safety").
-export const SAFETY_LINE = 'Never look at or near the sun, through binoculars or with the naked eye. Glint is a training aid: it replaces neither qualified instruction nor your unit\'s own rules for standing a look-out watch.'
+import { SAFETY_LINE, escapeHtml } from '../../../shared/utils/mail-text'
 
 export interface MailContent {
   subject: string
@@ -36,10 +35,6 @@ export interface WeeklyDigest extends MailContent {
   slipped: string[]
   notDrilled: string[]
   readyCount: number
-}
-
-export function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' }[c]!))
 }
 
 // A name is one line: a stray line break must not reshape the mail or its subject.

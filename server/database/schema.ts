@@ -253,6 +253,8 @@ export const calls = sqliteTable('calls', {
   index('calls_deck_time_idx').on(t.deckId, t.calledAt),
   // Covers the crew table's per-person counts and latencies, so they are read from the index alone.
   index('calls_user_deck_time_idx').on(t.userId, t.deckId, t.calledAt, t.correct, t.grade, t.anticipation, t.latencyMs, t.aspect, t.condition, t.targetTypeId),
+  // Readiness counts the calls on each (target type, aspect) pair of a deck in the standard's window.
+  index('calls_user_deck_pair_time_idx').on(t.userId, t.deckId, t.targetTypeId, t.aspect, t.calledAt),
 ])
 
 export const tapBaselines = sqliteTable('tap_baselines', {

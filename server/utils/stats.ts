@@ -8,8 +8,8 @@ import { DAY_MS, callsSince, personStats, statsBy } from '../core/reports/crew-s
 import type { BreakdownRow, CallRecord } from '../core/reports/crew-stats'
 import { confusionMatrix, worstPairs } from '../core/reports/confusions'
 import type { ConfusionPair } from '../core/reports/confusions'
-import { readiness } from '../core/reports/readiness'
-import type { ReadinessStandard, TrackKey } from '../core/reports/readiness'
+import { readiness, readinessOfTally, trackKeyOf } from '../core/reports/readiness'
+import type { Readiness, ReadinessStandard, ReadinessTally, TrackKey } from '../core/reports/readiness'
 import type { CallGrade } from '../../shared/utils/grade'
 import { quantileSorted, rollingMedian, sortedCopy } from '../../shared/utils/statistics'
 import type {
@@ -181,45 +181,93 @@ function decksInScope(sqlite: Database, crewId: string, deckId: string | undefin
 export interface DeckReadinessResult { ready: boolean, missing: string[], accuracy: number | null, medianMs: number | null }
 
 /** Readiness on every deck in scope: ready only when ready on each; what is missing is named per deck when there are several. */
-export function readinessOnDecks(
-  calls: readonly LoadedCall[],
+export function combineDeckReadiness(
   decks: readonly DeckRow[],
-  keysByDeck: ReadonlyMap<string, TrackKey[]>,
-  standard: ReadinessStandard,
-  nowMs: number,
+  readinessOf: (deck: DeckRow) => Readiness,
 ): { ready: boolean, missing: string[], perDeck: (DeckReadinessResult & { deck: DeckRow })[] } {
   if (!decks.length) return { ready: false, missing: ['no deck is assigned to the crew'], perDeck: [] }
   const perDeck = decks.map((deck) => {
-    const r = readiness({
-      calls: calls.filter(c => c.deckId === deck.id),
-      trackKeys: keysByDeck.get(deck.id) ?? [],
-      standard,
-      hesitationMs: deck.hesitationMs,
-      nowMs,
-    })
+    const r = readinessOf(deck)
     return { deck, ready: r.ready, missing: r.missing, accuracy: r.accuracy, medianMs: r.medianMs }
   })
   const missing = perDeck.flatMap(d => decks.length > 1 ? d.missing.map(m => `${d.deck.title}: ${m}`) : d.missing)
   return { ready: perDeck.every(d => d.ready), missing, perDeck }
 }
 
+/** readiness() on each deck in scope, over the given calls (see combineDeckReadiness). */
+export function readinessOnDecks(
+  calls: readonly LoadedCall[],
+  decks: readonly DeckRow[],
+  keysByDeck: ReadonlyMap<string, TrackKey[]>,
+  standard: ReadinessStandard,
+  nowMs: number,
+) {
+  return combineDeckReadiness(decks, deck => readiness({
+    calls: calls.filter(c => c.deckId === deck.id),
+    trackKeys: keysByDeck.get(deck.id) ?? [],
+    standard,
+    hesitationMs: deck.hesitationMs,
+    nowMs,
+  }))
+}
+
 // A right call in SQL, the same rule as isRightCall in server/core/reports/crew-stats.ts.
 const RIGHT = '(correct = 1 AND grade != \'missed\' AND anticipation = 0)'
 
+// One number per call for the crew table, so a person's calls come back in one scan of the covering
+// index as plain integers (no grouping, no sort, no row objects):
+//   ((((code · decks + deck) · 2 + onDeckType) · 2 + matchesFilter) · 8 + period
+// code: 0 not a right call, 1 right without a latency, latency + 2 for a right call with one;
+// deck: the call's deck's index in scope; onDeckType: in the standard's window, on a target type
+// with a view in its deck;
+// period: how many of the cut times (newest first) the call comes before. Every factor is whole and
+// small (a latency is at most MAX_LATENCY_MS), so the number is exact and decodes back in JS.
+const PERIOD_SLOTS = 8
+
+interface PackedStatementKey { cuts: number, decks: number, filtered: boolean }
+
+export function packedSql({ cuts, decks, filtered }: PackedStatementKey): string {
+  const period = Array.from({ length: cuts }, () => '(called_at < ?)').join(' + ') || '0'
+  const deck = decks > 1 ? `(CASE deck_id ${Array.from({ length: decks }, (_, i) => `WHEN ? THEN ${i}`).join(' ')} END)` : '0'
+  // Looked up only for calls in the standard's window, the only ones readiness reads.
+  const onDeckType = `(called_at >= ? AND target_type_id IN (SELECT v.target_type_id FROM views v JOIN target_types t ON t.id = v.target_type_id
+    WHERE t.deck_id IN (SELECT value FROM json_each(?))))`
+  const matches = filtered ? '((? IS NULL OR aspect = ?) AND (? IS NULL OR condition = ?))' : '1'
+  const code = `(CASE WHEN ${RIGHT} THEN coalesce(latency_ms + 2, 1) ELSE 0 END)`
+  return `SELECT ((((${code} * ${decks} + ${deck}) * 2 + ${onDeckType}) * 2 + ${matches}) * ${PERIOD_SLOTS} + ${period})
+    FROM calls WHERE user_id = ? AND deck_id IN (SELECT value FROM json_each(?)) AND called_at >= ? AND called_at < ?`
+}
+
+// Calls on each (target type, aspect) pair of a JSON list in [from, to], in the list's order: one
+// seek of calls_user_deck_pair_time_idx a pair.
+export const PAIR_COUNTS_SQL = `SELECT (SELECT COUNT(*) FROM calls c WHERE c.user_id = ? AND c.deck_id = ?
+  AND c.target_type_id = k.value ->> 0 AND c.aspect = k.value ->> 1 AND c.called_at >= ? AND c.called_at <= ?)
+  FROM json_each(?) k ORDER BY k.key`
+
+// The pairs of a deck as the JSON list PAIR_COUNTS_SQL reads, made once per list of keys.
+const pairLists = new WeakMap<readonly TrackKey[], string>()
+function pairListOf(keys: readonly TrackKey[]): string {
+  let json = pairLists.get(keys)
+  if (json === undefined) {
+    json = JSON.stringify(keys.map(k => [k.targetTypeId, k.aspect]))
+    pairLists.set(keys, json)
+  }
+  return json
+}
+
 function tableStatementsFor(sqlite: Database) {
-  const p = (s: string) => sqlite.prepare(s)
-  // One period [from, to) of one person on the decks in scope; the filtered form only when a filter is set.
-  const range = 'user_id = ? AND deck_id IN (SELECT value FROM json_each(?)) AND called_at >= ? AND called_at < ?'
-  const filtered = `${range} AND (? IS NULL OR aspect = ?) AND (? IS NULL OR condition = ?)`
+  const packed = new Map<string, Statement>()
   return {
-    counts: p(`SELECT COUNT(*), SUM(${RIGHT}) FROM calls WHERE ${range}`).raw(),
-    latencies: p(`SELECT latency_ms FROM calls WHERE ${range} AND ${RIGHT} AND latency_ms IS NOT NULL`).pluck(),
-    countsFiltered: p(`SELECT COUNT(*), SUM(${RIGHT}) FROM calls WHERE ${filtered}`).raw(),
-    latenciesFiltered: p(`SELECT latency_ms FROM calls WHERE ${filtered} AND ${RIGHT} AND latency_ms IS NOT NULL`).pluck(),
-    deckGroups: p(`SELECT target_type_id, aspect, ${RIGHT}, COUNT(*) FROM calls
-      WHERE user_id = ? AND deck_id = ? AND called_at >= ? AND called_at <= ? GROUP BY 1, 2, 3`).raw(),
-    deckLatencies: p(`SELECT latency_ms FROM calls WHERE user_id = ? AND deck_id = ? AND called_at >= ? AND called_at <= ?
-      AND ${RIGHT} AND latency_ms IS NOT NULL`).pluck(),
+    packed(key: PackedStatementKey): Statement {
+      const k = `${key.cuts}:${key.decks}:${key.filtered}`
+      let st = packed.get(k)
+      if (!st) {
+        st = sqlite.prepare(packedSql(key)).pluck()
+        packed.set(k, st)
+      }
+      return st
+    },
+    pairCounts: sqlite.prepare(PAIR_COUNTS_SQL).pluck(),
   }
 }
 
@@ -233,38 +281,70 @@ function tableStmts(sqlite: Database) {
   return s
 }
 
-/**
- * A person's calls on one deck in the standard's window, rebuilt from SQL counts per (target type,
- * aspect, right or not) and the right calls' latencies: the same multiset of what readiness()
- * reads (coverage counts, accuracy, the median of right calls), without loading every row.
- */
-export function readinessCallsOf(sqlite: Database, userId: string, deckId: string, fromMs: number, nowMs: number): CallRecord[] {
-  const t = tableStmts(sqlite)
-  const groups = t.deckGroups.all(userId, deckId, fromMs, nowMs) as [string, string, number, number][]
-  const latencies = t.deckLatencies.all(userId, deckId, fromMs, nowMs) as number[]
-  const out: CallRecord[] = []
-  let next = 0
-  for (const [targetTypeId, aspect, ok, n] of groups) {
-    for (let i = 0; i < n; i++) {
-      const right = ok === 1
-      out.push({
-        targetTypeId,
-        aspect,
-        condition: '',
-        calledTypeId: right ? targetTypeId : null,
-        correct: right,
-        grade: right ? 'sure' : 'missed',
-        anticipation: false,
-        latencyMs: right ? (latencies[next++] ?? null) : null,
-        calledAt: nowMs,
-      })
-    }
-  }
-  return out
-}
-
 function quantileOf(sorted: Float64Array, p: number): number | null {
   return sorted.length ? quantileSorted(sorted, p) : null
+}
+
+/** Per period: calls, right calls and right calls' latencies that match the filters. */
+interface PeriodFigures { calls: number[], right: number[], latencies: number[][] }
+
+/**
+ * One person's calls on the decks in scope, counted per period (newest first) for the table, and
+ * per deck over the standard's window for readiness: the tally readiness() would take of the
+ * same calls (see readinessOfTally).
+ */
+export function personTallies(
+  sqlite: Database,
+  userId: string,
+  decks: readonly DeckRow[],
+  keysByDeck: ReadonlyMap<string, readonly TrackKey[]>,
+  scope: { cutTimes: readonly number[], oldestMs: number, windowFromMs: number, nowMs: number },
+  filter: { aspect: string | null, condition: string | null },
+): { periods: PeriodFigures, readiness: ReadinessTally[] } {
+  const n = scope.cutTimes.length + 1
+  const periods: PeriodFigures = { calls: Array(n).fill(0), right: Array(n).fill(0), latencies: Array.from({ length: n }, () => []) }
+  const tallies = decks.map(() => ({ calls: 0, right: 0, latencies: [] as number[] }))
+  if (!decks.length) return { periods, readiness: [] }
+  const t = tableStmts(sqlite)
+  const deckIds = decks.map(d => d.id)
+  const deckJson = JSON.stringify(deckIds)
+  const filtered = filter.aspect !== null || filter.condition !== null
+  // In the order the placeholders come in packedSql: deck, onDeckType, matches, period, then WHERE.
+  const args: unknown[] = decks.length > 1 ? [...deckIds, scope.windowFromMs, deckJson] : [scope.windowFromMs, deckJson]
+  if (filtered) args.push(filter.aspect, filter.aspect, filter.condition, filter.condition)
+  args.push(...scope.cutTimes, userId, deckJson, scope.oldestMs, scope.nowMs + 1)
+  const values = t.packed({ cuts: scope.cutTimes.length, decks: decks.length, filtered }).all(...args) as number[]
+  const nDecks = decks.length
+  for (const v of values) {
+    // Below 2^31 (any latency up to MAX_LATENCY_MS on up to 1,100 decks) bit operations are exact
+    // and fast; above it, the same fields by division.
+    const small = v < 0x80000000
+    const period = small ? v & 7 : v % 8
+    const matches = small ? (v >> 3) & 1 : Math.floor(v / 8) % 2
+    const onDeckType = small ? (v >> 4) & 1 : Math.floor(v / 16) % 2
+    const rest = small ? v >>> 5 : Math.floor(v / 32)
+    const deck = nDecks === 1 ? 0 : rest % nDecks
+    const code = nDecks === 1 ? rest : (rest - deck) / nDecks
+    if (matches) {
+      periods.calls[period]!++
+      if (code > 0) periods.right[period]!++
+      if (code > 1) periods.latencies[period]!.push(code - 2)
+    }
+    if (onDeckType) {
+      const tally = tallies[deck]!
+      tally.calls++
+      if (code > 0) tally.right++
+      if (code > 1) tally.latencies.push(code - 2)
+    }
+  }
+  const readinessTallies = decks.map((deck, i): ReadinessTally => {
+    const keys = keysByDeck.get(deck.id) ?? []
+    const n = t.pairCounts.all(userId, deck.id, scope.windowFromMs, scope.nowMs, pairListOf(keys)) as number[]
+    const counts = new Map(keys.map((k, j) => [trackKeyOf(k.targetTypeId, k.aspect), n[j]!]))
+    const { calls, right, latencies } = tallies[i]!
+    return { calls, right, latencies: sortedCopy(latencies), counts }
+  })
+  return { periods, readiness: readinessTallies }
 }
 
 /**
@@ -274,7 +354,6 @@ function quantileOf(sorted: Float64Array, p: number): number | null {
  */
 export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilters, nowMs: number): CrewStats {
   const s = stmts(sqlite)
-  const t = tableStmts(sqlite)
   const crew = s.crew.get(crewId) as CrewRow | undefined
   if (!crew) throw createError({ statusCode: 404, message: 'No such crew.' })
   const decks = decksInScope(sqlite, crewId, filters.deckId, 'this crew')
@@ -284,37 +363,40 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
   const keysByDeck = new Map(decks.map(d => [d.id, trackKeysOf(sqlite, d.id)]))
   const trainees = s.trainees.all(crewId) as { id: string, name: string }[]
 
-  // Periods back from now, in days: the table's window, both trends and the period before each.
-  const cuts = [...new Set([0, 7, 14, 30, 60, filters.days])].sort((a, b) => a - b)
-  // Segment i is [now - cuts[i+1] days, now - cuts[i] days), the newest including now itself.
-  const bounds = cuts.slice(1).map((d, i) => [nowMs - d * DAY_MS, i === 0 ? nowMs + 1 : nowMs - cuts[i]! * DAY_MS] as const)
-  // Segments [first, last] of the periods covering "the last d days" and "the d days before".
+  // Periods back from now, in days: the table's window, both trends, the period before each, and
+  // the standard's window. Period i is [now - cuts[i+1] days, now - cuts[i] days), the newest
+  // including now itself; "the last d days" is periods 0 .. upTo(d).
+  const cuts = [...new Set([0, 7, 14, 30, 60, filters.days, standard.windowDays])].sort((a, b) => a - b)
   const upTo = (d: number) => cuts.indexOf(d) - 1
+  const scope = {
+    cutTimes: cuts.slice(1, -1).map(d => nowMs - d * DAY_MS),
+    oldestMs: nowMs - cuts[cuts.length - 1]! * DAY_MS,
+    windowFromMs: nowMs - standard.windowDays * DAY_MS,
+    nowMs,
+  }
   const aspect = filters.aspect ?? null
   const condition = filters.condition ?? null
-  const anyFilter = aspect !== null || condition !== null
 
   const rows: CrewStatsRow[] = trainees.map((person) => {
-    const calls = bounds.map(() => 0)
-    const right = bounds.map(() => 0)
-    const lat: number[][] = bounds.map(() => [])
-    if (deckIds.length) {
-      bounds.forEach(([from, to], i) => {
-        const args: unknown[] = anyFilter ? [person.id, deckJson, from, to, aspect, aspect, condition, condition] : [person.id, deckJson, from, to]
-        const [n, r] = (anyFilter ? t.countsFiltered : t.counts).get(...args) as [number, number | null]
-        calls[i] = n
-        right[i] = r ?? 0
-        if (n) lat[i] = (anyFilter ? t.latenciesFiltered : t.latencies).all(...args) as number[]
-      })
-    }
+    const { periods, readiness: tallies } = personTallies(sqlite, person.id, decks, keysByDeck, scope, { aspect, condition })
+    const spans = new Map<string, { n: number, r: number, sorted: Float64Array }>()
     const span = (from: number, to: number) => {
+      const key = `${from}:${to}`
+      let figures = spans.get(key)
+      if (!figures) {
+        figures = spanOf(from, to)
+        spans.set(key, figures)
+      }
+      return figures
+    }
+    const spanOf = (from: number, to: number) => {
       let n = 0
       let r = 0
       const l: number[] = []
       for (let i = from; i <= to; i++) {
-        n += calls[i]!
-        r += right[i]!
-        for (const x of lat[i]!) l.push(x)
+        n += periods.calls[i]!
+        r += periods.right[i]!
+        for (const x of periods.latencies[i]!) l.push(x)
       }
       return { n, r, sorted: sortedCopy(l) }
     }
@@ -333,9 +415,10 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
       }
     }
     const main = window(filters.days)
-    const readinessCalls: LoadedCall[] = decks.flatMap(d =>
-      readinessCallsOf(sqlite, person.id, d.id, nowMs - standard.windowDays * DAY_MS, nowMs).map(c => ({ ...c, deckId: d.id })))
-    const ready = readinessOnDecks(readinessCalls, decks, keysByDeck, standard, nowMs)
+    const ready = combineDeckReadiness(decks, (deck) => {
+      const i = decks.indexOf(deck)
+      return readinessOfTally(tallies[i]!, keysByDeck.get(deck.id) ?? [], standard, deck.hesitationMs)
+    })
     const last = deckIds.length ? s.lastCall.get(person.id, nowMs, deckJson) as number | undefined : undefined
     return {
       userId: person.id,

@@ -1,16 +1,17 @@
 // POST /api/sightings/[id]/call under 50 signed-in trainees (autocannon, 50 connections, loopback),
 // each request a different issued sighting, beside GET /api/health measured in the same run.
 // Run: npx tsx tests/bench/calls.bench.ts [--json]
-import { execFileSync, spawn } from 'node:child_process'
+import { spawn } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
-import { existsSync, mkdtempSync, readdirSync, rmSync, statSync } from 'node:fs'
+import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { join } from 'node:path'
 import autocannon from 'autocannon'
 import Database from 'better-sqlite3'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { applyMigrations, openDatabase } from '../../server/database/client'
 import { freePort, testEnv, waitForHealth } from '../support/global-setup'
+import { ensureBuild } from './build'
 
 const json = process.argv.includes('--json')
 const TAG = 'bench'
@@ -21,28 +22,6 @@ const TYPES_PER_DECK = 15
 const PASSWORD = 'bench trainee phrase'
 const log = (...a: unknown[]) => {
   if (!json) console.log(...a)
-}
-
-function newestMtime(dir: string): number {
-  let newest = 0
-  for (const f of readdirSync(dir)) {
-    const p = join(dir, f)
-    const s = statSync(p)
-    newest = Math.max(newest, s.isDirectory() ? newestMtime(p) : s.mtimeMs)
-  }
-  return newest
-}
-
-// Builds .output-bench/ when it is missing or older than the server and shared sources.
-function ensureBuild() {
-  const entry = resolve(`.output-${TAG}`, 'server/index.mjs')
-  const sources = Math.max(newestMtime('server'), newestMtime('shared'))
-  if (existsSync(entry) && statSync(entry).mtimeMs > sources) return entry
-  log('building .output-bench ...')
-  execFileSync(process.execPath, [resolve('node_modules/nuxt/bin/nuxt.mjs'), 'build'], {
-    env: { ...process.env, GLINT_BUILD_TAG: TAG }, stdio: json ? 'ignore' : 'inherit',
-  })
-  return entry
 }
 
 const id = () => randomBytes(16).toString('base64url')
@@ -101,7 +80,7 @@ function run(opts: autocannon.Options): Promise<autocannon.Result> {
   })
 }
 
-const entry = ensureBuild()
+const entry = ensureBuild(TAG, { quiet: json })
 const dir = mkdtempSync(join(tmpdir(), 'glint-bench-calls-'))
 const port = await freePort()
 const env = testEnv(dir, port)

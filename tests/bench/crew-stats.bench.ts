@@ -1,13 +1,14 @@
 // The crew table's request time for a crew of 50 trainees with a year of history (>= 500,000 calls).
 // npx tsx tests/bench/crew-stats.bench.ts [--json]; builds the server with its own tag when missing.
-import { execFileSync, spawn } from 'node:child_process'
-import { existsSync, mkdtempSync, rmSync } from 'node:fs'
+import { spawn } from 'node:child_process'
+import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { join } from 'node:path'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { applyMigrations, openDatabase } from '../../server/database/client'
 import { quantile } from '../../shared/utils/statistics'
 import { freePort, testEnv, waitForHealth } from '../support/global-setup'
+import { ensureBuild } from './build'
 
 const json = process.argv.includes('--json')
 const log = (...a: unknown[]) => {
@@ -93,19 +94,14 @@ async function seed(dbPath: string, nowMs: number) {
       }
     }
   })()
+  // No ANALYZE: the app keeps no planner statistics (see DEVELOPERS.md, Benchmarks), so neither does this.
   sqlite.pragma('wal_checkpoint(TRUNCATE)')
-  sqlite.exec('ANALYZE')
   sqlite.close()
   return calls
 }
 
 async function main() {
-  const tag = process.env.GLINT_BUILD_TAG || 'bench'
-  const entry = resolve(`.output-${tag}`, 'server/index.mjs')
-  if (!existsSync(entry)) {
-    log(`building the server with GLINT_BUILD_TAG=${tag}`)
-    execFileSync('npx', ['nuxt', 'build'], { env: { ...process.env, GLINT_BUILD_TAG: tag }, stdio: json ? 'ignore' : 'inherit' })
-  }
+  const entry = ensureBuild(process.env.GLINT_BUILD_TAG || 'bench', { quiet: json })
   const dir = mkdtempSync(join(tmpdir(), 'glint-bench-stats-'))
   const port = await freePort()
   const env = testEnv(dir, port)

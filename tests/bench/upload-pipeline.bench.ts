@@ -1,12 +1,12 @@
 // Upload to every rendering done, for 1600 x 1000 PNG silhouettes, through the built server's
 // worker pool against a single-worker pool, and the server's peak resident memory.
 // npx tsx tests/bench/upload-pipeline.bench.ts [--json]; builds the server with its own tag when missing.
-import { execFileSync, spawn } from 'node:child_process'
+import { spawn } from 'node:child_process'
 import { createHash } from 'node:crypto'
 import type { ChildProcess } from 'node:child_process'
-import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs'
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs'
 import { availableParallelism, tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { join } from 'node:path'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { applyMigrations, openDatabase } from '../../server/database/client'
 import { encodePng } from '../../server/core/imaging/codecs'
@@ -15,6 +15,7 @@ import { drawSilhouette } from '../../server/core/imaging/generate/index'
 import type { Aspect } from '../../shared/utils/conditions'
 import { quantile } from '../../shared/utils/statistics'
 import { freePort, testEnv, waitForHealth } from '../support/global-setup'
+import { ensureBuild } from './build'
 
 const json = process.argv.includes('--json')
 const log = (...a: unknown[]) => {
@@ -130,12 +131,7 @@ async function measure(entry: string, threads: number | null, images: { warm: Ui
 }
 
 async function main() {
-  const tag = process.env.GLINT_BUILD_TAG || 'bench-upload'
-  const entry = resolve(`.output-${tag}`, 'server/index.mjs')
-  if (!existsSync(entry) || !existsSync(resolve(`.output-${tag}`, 'server/workers/render-worker.mjs'))) {
-    log(`building the server with GLINT_BUILD_TAG=${tag}`)
-    execFileSync('npx', ['nuxt', 'build'], { env: { ...process.env, GLINT_BUILD_TAG: tag }, stdio: json ? 'ignore' : 'inherit' })
-  }
+  const entry = ensureBuild(process.env.GLINT_BUILD_TAG || 'bench-upload', { quiet: json, needs: ['server/workers/render-worker.mjs'] })
   const cores = availableParallelism()
   const warmFiles = 3 * cores
   const all = await silhouettes(warmFiles + SINGLE_FILES + BATCH_FILES)

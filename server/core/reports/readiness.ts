@@ -67,8 +67,33 @@ function seconds(ms: number): string {
   return `${(Math.round(ms / 10) / 100).toFixed(2)} s`
 }
 
-function keyOf(targetTypeId: string, aspect: string): string {
+/** The key of a (target type, aspect) pair in a tally's counts. */
+export function trackKeyOf(targetTypeId: string, aspect: string): string {
   return `${targetTypeId}\u0000${aspect}`
+}
+
+/** What readiness reads of a window's calls: counts, right calls, their latencies, calls per pair. */
+export interface ReadinessTally {
+  calls: number
+  right: number
+  // latencies of the right calls, sorted ascending
+  latencies: ArrayLike<number>
+  // calls per (target type, aspect), keyed by trackKeyOf
+  counts: ReadonlyMap<string, number>
+}
+
+/** The tally of the calls in the last `days` days up to nowMs on the deck's target types. */
+export function tallyCalls(calls: readonly CallRecord[], trackKeys: readonly TrackKey[], nowMs: number, days: number): ReadinessTally {
+  const deckTypes = new Set(trackKeys.map(k => k.targetTypeId))
+  const inWindow = callsSince(calls, nowMs, days).filter(c => deckTypes.has(c.targetTypeId))
+  const counts = new Map<string, number>()
+  let right = 0
+  for (const c of inWindow) {
+    if (isRightCall(c)) right++
+    const k = trackKeyOf(c.targetTypeId, c.aspect)
+    counts.set(k, (counts.get(k) ?? 0) + 1)
+  }
+  return { calls: inWindow.length, right, latencies: rightLatencies(inWindow), counts }
 }
 
 /**
@@ -79,24 +104,24 @@ function keyOf(targetTypeId: string, aspect: string): string {
  */
 export function readiness(input: ReadinessInput): Readiness {
   const standard: ReadinessStandard = { ...DEFAULT_STANDARD, ...input.standard }
-  const { hesitationMs, nowMs } = input
+  return readinessOfTally(tallyCalls(input.calls, input.trackKeys, input.nowMs, standard.windowDays), input.trackKeys, standard, input.hesitationMs)
+}
+
+/** Readiness from a window's tally (see readiness()); the crew table counts the tally in SQL. */
+export function readinessOfTally(
+  tally: ReadinessTally,
+  trackKeys: readonly TrackKey[],
+  partialStandard: Partial<ReadinessStandard> | undefined,
+  hesitationMs: number,
+): Readiness {
+  const standard: ReadinessStandard = { ...DEFAULT_STANDARD, ...partialStandard }
   const days = standard.windowDays
   const period = `in the last ${days} day${days === 1 ? '' : 's'}`
 
   const keys = new Map<string, TrackKey>()
-  for (const k of input.trackKeys) keys.set(keyOf(k.targetTypeId, k.aspect), { targetTypeId: k.targetTypeId, aspect: k.aspect })
-  const deckTypes = new Set([...keys.values()].map(k => k.targetTypeId))
-
-  const calls = callsSince(input.calls, nowMs, days).filter(c => deckTypes.has(c.targetTypeId))
-  const counts = new Map<string, number>()
-  let right = 0
-  for (const c of calls) {
-    if (isRightCall(c)) right++
-    const k = keyOf(c.targetTypeId, c.aspect)
-    counts.set(k, (counts.get(k) ?? 0) + 1)
-  }
-  const accuracy = calls.length ? right / calls.length : null
-  const latencies = rightLatencies(calls)
+  for (const k of trackKeys) keys.set(trackKeyOf(k.targetTypeId, k.aspect), { targetTypeId: k.targetTypeId, aspect: k.aspect })
+  const { counts, latencies } = tally
+  const accuracy = tally.calls ? tally.right / tally.calls : null
   const medianMs = latencies.length ? quantileSorted(latencies, 0.5) : null
 
   const missing: string[] = []
@@ -125,5 +150,5 @@ export function readiness(input: ReadinessInput): Readiness {
     missing.push(`${pairs} ${how} in ${days} day${days === 1 ? '' : 's'}`)
   }
 
-  return { ready: missing.length === 0, missing, accuracy, medianMs, calls: calls.length, uncovered }
+  return { ready: missing.length === 0, missing, accuracy, medianMs, calls: tally.calls, uncovered }
 }

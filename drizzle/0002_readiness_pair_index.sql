@@ -1,0 +1,1 @@
+CREATE INDEX `calls_user_deck_pair_time_idx` ON `calls` (`user_id`,`deck_id`,`target_type_id`,`aspect`,`called_at`);

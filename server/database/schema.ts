@@ -249,8 +249,8 @@ export const calls = sqliteTable('calls', {
   result: text('result', { mode: 'json' }).$type<Record<string, unknown>>(),
 }, t => [
   uniqueIndex('calls_sighting_uq').on(t.sightingId),
-  index('calls_user_time_idx').on(t.userId, t.calledAt),
-  index('calls_deck_time_idx').on(t.deckId, t.calledAt),
+  // No separate (user, time) or (deck, time) index: the covering index below serves both through
+  // its (user_id, deck_id) prefix, and every index is one more page written by each call.
   // Covers the crew table's per-person counts and latencies, so they are read from the index alone.
   index('calls_user_deck_time_idx').on(t.userId, t.deckId, t.calledAt, t.correct, t.grade, t.anticipation, t.latencyMs, t.aspect, t.condition, t.targetTypeId),
   // Readiness counts the calls on each (target type, aspect) pair of a deck in the standard's window.

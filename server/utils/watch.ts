@@ -109,6 +109,8 @@ const SQL = {
     @after, @result) ON CONFLICT (sighting_id) DO NOTHING`,
   uncalled: `SELECT s.id, s.target_type_id AS typeId FROM sightings s WHERE s.watch_id = ? AND s.id <> ?
     AND s.voided_at IS NULL AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY s.position, s.issued_at`,
+  anyUncalled: `SELECT 1 FROM sightings s WHERE s.watch_id = ? AND s.id <> ? AND s.voided_at IS NULL
+    AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY s.position DESC LIMIT 1`,
   reshowCount: `SELECT count(*) AS n FROM sightings WHERE watch_id = ? AND track_id = ? AND reshow_of IS NOT NULL`,
   setPosition: `UPDATE sightings SET position = ? WHERE id = ?`,
   maxPosition: `SELECT coalesce(max(position), -1) AS p FROM sightings WHERE watch_id = ?`,
@@ -513,7 +515,9 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       }
     }
     // The whole answer is known before the insert, so the stored result is written with the call itself.
-    const remaining = stmt(sqlite, 'uncalled').all(s.watchId, sightingId) as { id: string, typeId: string }[]
+    // Only a re-show needs the sightings still to come; otherwise whether any is left.
+    const remaining = reshow ? stmt(sqlite, 'uncalled').all(s.watchId, sightingId) as { id: string, typeId: string }[] : []
+    const anyLeft = reshow ? remaining.length > 0 : !!stmt(sqlite, 'anyUncalled').get(s.watchId, sightingId)
     let order: string[] = []
     if (reshow) {
       reshow.id = newId()
@@ -554,7 +558,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       insertPlanned(sqlite, s.watchId, userId, reshow.plan, maxPos + 1, nowMs, sightingId, reshow.id)
       order.forEach((id, i) => stmt(sqlite, 'setPosition').run(s.position + 1 + i, id))
     }
-    else if (remaining.length === 0) {
+    else if (!anyLeft) {
       closeWatch(sqlite, s.watchId, nowMs)
     }
     return result

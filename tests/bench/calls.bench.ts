@@ -3,7 +3,7 @@
 // Run: npx tsx tests/bench/calls.bench.ts [--json]
 import { spawn } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
-import { mkdtempSync, rmSync } from 'node:fs'
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
@@ -68,6 +68,12 @@ async function prepareDb(path: string) {
   })()
   sqlite.close()
   return emails
+}
+
+// User + system CPU of a process in ms, from /proc/<pid>/stat (clock ticks, 100 a second on Linux).
+function serverCpuMs(pid: number): number {
+  const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
+  return (Number(fields[11]) + Number(fields[12])) * 10
 }
 
 function cookieOf(res: Response) {
@@ -135,8 +141,15 @@ try {
     }]
   }
   await run({ url: base, connections: CONNECTIONS, amount: warm.length, requests: callRequests(warm) })
+  const cpu0 = serverCpuMs(child.pid!)
   const calls = await run({ url: base, connections: CONNECTIONS, amount: pairs.length, requests: callRequests(pairs) })
+  const cpu1 = serverCpuMs(child.pid!)
   const trivial = await run({ url: `${base}/api/health`, connections: CONNECTIONS, duration: 5 })
+  const cpu2 = serverCpuMs(child.pid!)
+  // The server's own CPU time a request (user + system, every thread): less noisy than a rate,
+  // since the load generator shares the two cores.
+  const cpuPerCallUs = Math.round((cpu1 - cpu0) * 1000 / calls.requests.total)
+  const cpuPerTrivialUs = Math.round((cpu2 - cpu1) * 1000 / trivial.requests.total)
 
   const stored = (new Database(env.NUXT_DATABASE_PATH!, { readonly: true }).prepare('SELECT count(*) AS n FROM calls').get() as { n: number }).n
   const callsPerSec = Math.round(calls.requests.total / (calls.duration || 1))
@@ -147,12 +160,15 @@ try {
     p50Ms: calls.latency.p50,
     p99Ms: calls.latency.p99,
     ratioToTrivial: Math.round((callsPerSec / trivialPerSec) * 1000) / 1000,
+    cpuPerCallUs,
+    cpuPerTrivialUs,
   }
   if (json) console.log(JSON.stringify(figures))
   else {
     console.log(`calls: ${calls.requests.total} in ${calls.duration.toFixed(2)} s (${calls.non2xx} not 2xx, ${calls.errors} errors); ${stored} calls stored`)
     console.log(`callsPerSec ${callsPerSec}  p50Ms ${calls.latency.p50}  p99Ms ${calls.latency.p99}`)
     console.log(`trivial GET /api/health: ${trivialPerSec}/s  p50Ms ${trivial.latency.p50}  p99Ms ${trivial.latency.p99}`)
+    console.log(`server CPU a request: call ${cpuPerCallUs} us, trivial ${cpuPerTrivialUs} us`)
     console.log(`ratioToTrivial ${figures.ratioToTrivial}  (targets: >= 1500 calls/s, p99 < 25 ms, ratio >= 0.4)`)
   }
 }

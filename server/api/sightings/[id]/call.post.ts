@@ -2,9 +2,12 @@ import { CallBody } from '#shared/schemas/drill'
 import { IdParam } from '#shared/schemas/params'
 
 // One call on a sighting: graded, scheduled and stored once (a resend gets the first result).
+// Calls that arrive together share one commit (server/utils/group-commit.ts); the answer is sent
+// only once the call is stored.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'trainee')
   const input = await readInput(event, CallBody)
-  return callSighting(useSqlite(), actor.id, id, input)
+  const sqlite = useSqlite()
+  return inGroupCommit(sqlite, () => callSighting(sqlite, actor.id, id, input))
 })

@@ -14,4 +14,4 @@ if [ ! -f .output/server/index.mjs ] || [ -n "$(find app server shared public nu
   npm run build
 fi
 echo "Glint is starting on http://localhost:${PORT:-3000} (demo password: harbour-lantern-42)"
-exec node .output/server/index.mjs
+exec bash scripts/start.sh

@@ -47,9 +47,13 @@ export async function waitForHealth(url: string, child: ChildProcess, timeoutMs 
   throw new Error('server did not answer /api/health in time')
 }
 
+// The process settings scripts/start.sh runs the server with (npm start, npm run demo).
+const START_TUNABLES = readFileSync('scripts/malloc-tunables', 'utf8').trim()
+
 export function testEnv(dir: string, port: number): Record<string, string> {
   return {
     ...process.env as Record<string, string>,
+    GLIBC_TUNABLES: process.env.GLIBC_TUNABLES ?? START_TUNABLES,
     NODE_ENV: 'production',
     NUXT_DATABASE_PATH: join(dir, 'glint.sqlite'),
     NUXT_UPLOADS_DIR: join(dir, 'uploads'),

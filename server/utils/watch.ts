@@ -75,10 +75,6 @@ const SQL = {
     WHERE c.deck_id = ? AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
     AND c.user_id IN (SELECT m2.user_id FROM memberships m1 JOIN memberships m2 ON m2.crew_id = m1.crew_id WHERE m1.user_id = ?)
     GROUP BY 1, 2`,
-  confusionsOf: `SELECT c.target_type_id AS shown, c.called_type_id AS called, count(*) AS n FROM calls c
-    WHERE c.deck_id = ? AND c.target_type_id = ? AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
-    AND c.user_id IN (SELECT m2.user_id FROM memberships m1 JOIN memberships m2 ON m2.crew_id = m1.crew_id WHERE m1.user_id = ?)
-    GROUP BY 1, 2`,
   openWatches: `SELECT id, day FROM watches WHERE user_id = ? AND deck_id = ? AND kind = 'watch' AND status = 'open' ORDER BY created_at DESC`,
   closeWatch: `UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`,
   insertWatch: `INSERT INTO watches (id, user_id, deck_id, kind, day, status, created_at, updated_at) VALUES (?, ?, ?, 'watch', ?, 'open', ?, ?)`,
@@ -206,9 +202,9 @@ export function ensureTracks(sqlite: Database, userId: string, content: DeckCont
     .sort((a, b) => (order.get(`${a.targetTypeId}|${a.aspect}`) ?? 1e9) - (order.get(`${b.targetTypeId}|${b.aspect}`) ?? 1e9))
 }
 
-function confusionsFor(sqlite: Database, userId: string, deckId: string, shownTypeId?: string) {
+function confusionsFor(sqlite: Database, userId: string, deckId: string) {
   const out = new Map<string, Map<string, number>>()
-  const rows = shownTypeId ? stmt(sqlite, 'confusionsOf').all(deckId, shownTypeId, userId) : stmt(sqlite, 'confusions').all(deckId, userId)
+  const rows = stmt(sqlite, 'confusions').all(deckId, userId)
   for (const r of rows as { shown: string, called: string, n: number }[]) {
     if (!out.has(r.shown)) out.set(r.shown, new Map())
     out.get(r.shown)!.set(r.called, r.n)
@@ -507,8 +503,13 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
         // Only the missed track's own views are read: a re-show needs no other rendering.
         const content = loadDrillContent(sqlite, s.deckId!, { targetTypeId: trackRow.targetTypeId, aspect: trackRow.aspect })
         if (content && content.views.length) {
+          // The re-show offers the names the missed sighting offered (chosen from look-alikes and the
+          // crew's confusions when the watch was issued), in a new order under new ids; so a call
+          // reads no crew history, however long it is.
+          const offered = new Set([trackRow.targetTypeId, ...choices.map(c => c.typeId)])
+          const again = choices.length ? { ...content, types: content.types.filter(t => offered.has(t.id)) } : content
           const plan = planTrackSighting({ ...toPlanTrack(trackRow), state: after }, {
-            content, confusions: confusionsFor(sqlite, userId, s.deckId!, trackRow.targetTypeId), ...random,
+            content: again, confusions: new Map(), ...random,
           })
           reshow = { plan, id: '' }
         }

@@ -176,6 +176,9 @@ describe('POST /api/sightings/[id]/call', () => {
     const reRow = rows.find(x => x.id === re.id)!
     expect(reRow.reshow_of).toBe(s.id)
     expect(reRow.track_id).toBe(row.track_id)
+    // The same names as the missed sighting, under new choice ids (the call reads no crew history).
+    expect(re.choices.map(c => c.label).sort()).toEqual(s.choices.map(c => c.label).sort())
+    expect(re.choices.some(c => s.choices.some(o => o.id === c.id))).toBe(false)
     // A later POST /api/watches includes it, at least three other sightings after the missed one (product.md).
     const again = await client.post<IssuedWatch>('/api/watches', { deckId: fx.deckId })
     const open = again.body.sightings.filter(x => !x.called).map(x => x.id)

@@ -74,6 +74,8 @@ describe('the watch offline at 390x844', () => {
     expect(await syncText(page)).toContain('All calls synced')
 
     await context.setOffline(true)
+    // The page must see the switch before the first tap, or that call may still be sent.
+    await expect.poll(() => page.evaluate(() => navigator.onLine)).toBe(false)
     const taps: { id: string, at: number }[] = []
     for (let i = 0; i < 4; i++) {
       taps.push(await answer(page, pack))

@@ -282,7 +282,8 @@ export const useWatchStore = defineStore('watch', () => {
 
   /** Sends the queued calls in the order they were made; the server's answer replaces the phone's. */
   async function sync() {
-    if (!import.meta.client || syncing.value || !userId) return
+    // With no connection nothing is sent; the browser's online event (online()) sends the queue.
+    if (!import.meta.client || syncing.value || !userId || !navigator.onLine) return
     syncing.value = true
     let failed = false
     try {

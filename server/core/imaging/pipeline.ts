@@ -5,7 +5,7 @@ import { CONDITIONS, type Condition } from '../../../shared/utils/conditions'
 import { decodeImage, encodeWebp, type ImageMime } from './codecs'
 import { ImageRejected } from './errors'
 import { type Box, cropMask, extractSilhouette, type MaskMethod, padMaskToAspect } from './mask'
-import { type Backdrop, coverageAt, RENDER_SIZES, renderCoverage } from './render'
+import { type Backdrop, coverageAt, RENDER_SIZES, renderCoverage, type RenderScratch } from './render'
 import { inspectUpload, type UploadLimits } from './sniff'
 
 export interface ProcessOptions {
@@ -79,8 +79,10 @@ export async function processImage(bytes: Uint8Array, options: ProcessOptions = 
   const renderings: ProcessedRendering[] = []
   for (const size of sizes) {
     const coverage = coverageAt(framed, size)
+    // One set of pixel buffers for the conditions of this size: each rendering is encoded before the next.
+    const scratch: RenderScratch = {}
     for (const condition of conditions) {
-      const rendering = renderCoverage(coverage, condition, seed, { backdrop: options.backdrop })
+      const rendering = renderCoverage(coverage, condition, seed, { backdrop: options.backdrop, scratch })
       const webp = await encodeWebp({ data: rendering.rgba, width: rendering.width, height: rendering.height }, { quality: options.quality ?? 80 })
       renderings.push({
         condition,

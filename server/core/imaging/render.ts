@@ -32,8 +32,19 @@ export interface Rendering {
   target: Box
 }
 
+/**
+ * Buffers one caller reuses across the renderings of one size (filled in on first use), so a view's
+ * six conditions do not allocate six sets of pixel buffers. A rendering's rgba is then valid only
+ * until the next rendering made with the same scratch.
+ */
+export interface RenderScratch {
+  rgba?: Uint8ClampedArray
+  soften?: [Float32Array, Float32Array]
+}
+
 export interface RenderOptions {
   backdrop?: Backdrop
+  scratch?: RenderScratch
 }
 
 type Rgb = readonly [number, number, number]
@@ -188,12 +199,15 @@ export function coverageAt(m: Mask, longSide: number): Coverage {
 
 // Two passes of a running box average per axis, close to a Gaussian softening. Rows are walked
 // in memory order in both directions, keeping one running sum per column for the vertical pass.
-function soften(c: Coverage, radius: number): Float32Array {
+function soften(c: Coverage, radius: number, scratch?: RenderScratch): Float32Array {
   const { width, height } = c
   const r = Math.max(1, Math.round(radius))
   const norm = 1 / (2 * r + 1)
-  let a = Float32Array.from(c.coverage)
-  let b = new Float32Array(a.length)
+  const n = c.coverage.length
+  if (scratch && scratch.soften?.[0].length !== n) scratch.soften = [new Float32Array(n), new Float32Array(n)]
+  let a = scratch ? scratch.soften![0] : new Float32Array(n)
+  let b = scratch ? scratch.soften![1] : new Float32Array(n)
+  a.set(c.coverage)
   const sums = new Float32Array(width)
   for (let pass = 0; pass < 2; pass++) {
     for (let y = 0; y < height; y++) {
@@ -323,7 +337,7 @@ export function renderCoverage(cov: Coverage, condition: Condition, seed: number
   const longSide = Math.max(width, height)
   const n = width * height
   const conditionSeed = hash32(seed, CONDITIONS.indexOf(condition), 7, 0x61C88647)
-  const coverage = scene.blur > 0 ? soften(cov, scene.blur * longSide) : cov.coverage
+  const coverage = scene.blur > 0 ? soften(cov, scene.blur * longSide, options.scratch) : cov.coverage
   const target = boundsOf(cov.coverage, width, height, 0.5)
   const horizon = options.backdrop === 'sea' && target.height > 0 ? target.y + target.height - 1 : height
 
@@ -344,7 +358,9 @@ export function renderCoverage(cov: Coverage, condition: Condition, seed: number
   }
 
   const lut = toSrgbLut()
-  const rgba = new Uint8ClampedArray(n * 4)
+  const scratch = options.scratch
+  if (scratch && scratch.rgba?.length !== n * 4) scratch.rgba = new Uint8ClampedArray(n * 4)
+  const rgba = scratch ? scratch.rgba! : new Uint8ClampedArray(n * 4)
   const [fr, fg, fb] = scene.filter ?? [1, 1, 1]
   const [tr, tg, tb] = scene.target
   const sv = scene.skyVariation * 2

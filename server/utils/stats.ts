@@ -183,11 +183,11 @@ export interface DeckReadinessResult { ready: boolean, missing: string[], accura
 /** Readiness on every deck in scope: ready only when ready on each; what is missing is named per deck when there are several. */
 export function combineDeckReadiness(
   decks: readonly DeckRow[],
-  readinessOf: (deck: DeckRow) => Readiness,
+  readinessOf: (deck: DeckRow, index: number) => Readiness,
 ): { ready: boolean, missing: string[], perDeck: (DeckReadinessResult & { deck: DeckRow })[] } {
   if (!decks.length) return { ready: false, missing: ['no deck is assigned to the crew'], perDeck: [] }
-  const perDeck = decks.map((deck) => {
-    const r = readinessOf(deck)
+  const perDeck = decks.map((deck, i) => {
+    const r = readinessOf(deck, i)
     return { deck, ready: r.ready, missing: r.missing, accuracy: r.accuracy, medianMs: r.medianMs }
   })
   const missing = perDeck.flatMap(d => decks.length > 1 ? d.missing.map(m => `${d.deck.title}: ${m}`) : d.missing)
@@ -415,10 +415,8 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
       }
     }
     const main = window(filters.days)
-    const ready = combineDeckReadiness(decks, (deck) => {
-      const i = decks.indexOf(deck)
-      return readinessOfTally(tallies[i]!, keysByDeck.get(deck.id) ?? [], standard, deck.hesitationMs)
-    })
+    const ready = combineDeckReadiness(decks, (deck, i) =>
+      readinessOfTally(tallies[i]!, keysByDeck.get(deck.id) ?? [], standard, deck.hesitationMs))
     const last = deckIds.length ? s.lastCall.get(person.id, nowMs, deckJson) as number | undefined : undefined
     return {
       userId: person.id,

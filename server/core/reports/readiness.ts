@@ -83,7 +83,7 @@ export interface ReadinessTally {
 }
 
 /** The tally of the calls in the last `days` days up to nowMs on the deck's target types. */
-export function tallyCalls(calls: readonly CallRecord[], trackKeys: readonly TrackKey[], nowMs: number, days: number): ReadinessTally {
+function tallyCalls(calls: readonly CallRecord[], trackKeys: readonly TrackKey[], nowMs: number, days: number): ReadinessTally {
   const deckTypes = new Set(trackKeys.map(k => k.targetTypeId))
   const inWindow = callsSince(calls, nowMs, days).filter(c => deckTypes.has(c.targetTypeId))
   const counts = new Map<string, number>()

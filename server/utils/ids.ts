@@ -1,8 +1,11 @@
 import { createHash, randomBytes } from 'node:crypto'
+import { nanoid } from 'nanoid'
 
-// 128 random bits, URL-safe: ids that cannot be guessed or enumerated.
+// 126 random bits, URL-safe (nanoid's default alphabet): ids that cannot be guessed or
+// enumerated. nanoid draws from a pool of random bytes refilled in bulk, where a randomBytes()
+// call per id costs microseconds on a busy server (every call writes rows with new ids).
 export function newId() {
-  return randomBytes(16).toString('base64url')
+  return nanoid()
 }
 
 // Single-use link tokens: 256 random bits; only their SHA-256 is stored.

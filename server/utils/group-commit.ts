@@ -1,6 +1,8 @@
 // Group commit: writes that arrive in the same turn of the event loop share one SQLite transaction,
-// so one COMMIT (the WAL write of every dirty page) serves many requests. Each write runs in its
-// own savepoint: one that throws is rolled back alone and rejects alone. Every promise settles only
+// so one COMMIT (the WAL write of every dirty page) serves many requests. A write that throws is
+// rolled back alone and rejects alone: the group first runs without savepoints (a savepoint copies
+// every page it touches into the sub-journal), and if any write throws, the whole transaction is
+// rolled back and the group runs again with a savepoint per write. Every promise settles only
 // after the shared COMMIT, so nothing is acknowledged before it is in the database; if the COMMIT
 // itself fails, every write of the group is rejected and none is kept.
 import type { Database } from 'better-sqlite3'
@@ -22,23 +24,47 @@ export const GROUP_COMMIT_MAX = 256
 
 const queues = new WeakMap<Database, Queue>()
 
+type Outcome = { ok: true, value: unknown } | { ok: false, error: unknown }
+
+class JobThrew extends Error {}
+
+// Every job of the group in one transaction; a job that throws rolls back all of them (JobThrew).
+function runTogether(sqlite: Database, jobs: Job[]): Outcome[] {
+  return sqlite.transaction(() => jobs.map((job): Outcome => {
+    try {
+      return { ok: true, value: job.fn() }
+    }
+    catch (error) {
+      throw new JobThrew('a write of the group threw', { cause: error })
+    }
+  })).immediate()
+}
+
+// Every job in its own savepoint (a nested better-sqlite3 transaction): a throw rolls back that job only.
+function runEachInSavepoint(sqlite: Database, jobs: Job[]): Outcome[] {
+  return sqlite.transaction(() => jobs.map((job): Outcome => {
+    try {
+      return { ok: true, value: sqlite.transaction(job.fn)() }
+    }
+    catch (error) {
+      return { ok: false, error }
+    }
+  })).immediate()
+}
+
 function flush(sqlite: Database, queue: Queue) {
   const jobs = queue.jobs.splice(0, GROUP_COMMIT_MAX)
   if (queue.jobs.length) setImmediate(() => flush(sqlite, queue))
   else queue.scheduled = false
-  const outcomes: ({ ok: true, value: unknown } | { ok: false, error: unknown })[] = []
+  let outcomes: Outcome[]
   try {
-    sqlite.transaction(() => {
-      for (const job of jobs) {
-        try {
-          // A nested better-sqlite3 transaction is a savepoint: a throw rolls back this job only.
-          outcomes.push({ ok: true, value: sqlite.transaction(job.fn)() })
-        }
-        catch (error) {
-          outcomes.push({ ok: false, error })
-        }
-      }
-    }).immediate()
+    try {
+      outcomes = runTogether(sqlite, jobs)
+    }
+    catch (error) {
+      if (!(error instanceof JobThrew)) throw error
+      outcomes = runEachInSavepoint(sqlite, jobs)
+    }
   }
   catch (error) {
     console.error('[group-commit] the shared commit failed; every write of the group is refused', error)
@@ -56,7 +82,7 @@ function flush(sqlite: Database, queue: Queue) {
 /**
  * Runs fn inside the next shared transaction on sqlite and resolves with its result after the
  * COMMIT. fn must be synchronous and only touch this database (it may open its own nested
- * transactions). Outside a request (scripts, tests) call fn inside sqlite.transaction directly.
+ * transactions); it may run twice, when another job of its group throws (the first run is rolled back). Outside a request (scripts, tests) call fn inside sqlite.transaction directly.
  */
 export function inGroupCommit<T>(sqlite: Database, fn: () => T): Promise<T> {
   let queue = queues.get(sqlite)

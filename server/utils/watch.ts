@@ -417,6 +417,13 @@ interface CallSightingRow {
   answerMode: string | null
 }
 
+// A write that must be all or nothing: its own IMMEDIATE transaction, or the caller's when one is
+// open (a group commit runs each job in a savepoint that rolls back a throw); a second savepoint
+// would copy every page the write touches into the sub-journal again.
+function atomically<T>(sqlite: Database, fn: () => T): T {
+  return sqlite.inTransaction ? fn() : sqlite.transaction(fn).immediate()
+}
+
 /**
  * Takes one call: graded by gradeCall, the track reviewed by FSRS at the call's own time
  * (calledAt bounded to [issuedAt, now]; more than CALL_LATE_LIMIT_MS after issue is refused), the
@@ -469,7 +476,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     }, nowMs)
   }
 
-  return sqlite.transaction(() => {
+  return atomically(sqlite, () => {
     const again = stmt(sqlite, 'callResult').get(sightingId) as { result: string } | undefined
     if (again) return JSON.parse(again.result) as CallResult
     const trackRow = s.trackId ? stmt(sqlite, 'track').get(s.trackId) as TrackRow | undefined : undefined
@@ -563,7 +570,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       closeWatch(sqlite, s.watchId, nowMs)
     }
     return result
-  }).immediate()
+  })
 }
 
 // ---------------------------------------------------------------- the offline pack

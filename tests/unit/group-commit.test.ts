@@ -66,6 +66,28 @@ describe('group commit', () => {
     expect(stored()).toEqual(['kept 1', 'kept 2'])
   })
 
+  it('runs a group once when nothing throws, and again job by job when one does, keeping each write once', async () => {
+    const runs = { a: 0, b: 0, bad: 0 }
+    const counted = (k: keyof typeof runs, fn: () => unknown) => () => {
+      runs[k]++
+      return fn()
+    }
+    await Promise.all([inGroupCommit(writer, counted('a', insert('a'))), inGroupCommit(writer, counted('b', insert('b')))])
+    expect(runs).toEqual({ a: 1, b: 1, bad: 0 })
+    const results = await Promise.allSettled([
+      inGroupCommit(writer, counted('a', insert('a2'))),
+      inGroupCommit(writer, counted('bad', () => {
+        insert('half-done')()
+        throw new Error('refused')
+      })),
+      inGroupCommit(writer, counted('b', insert('b2'))),
+    ])
+    expect(results.map(r => r.status)).toEqual(['fulfilled', 'rejected', 'fulfilled'])
+    // First run rolled back whole at the throw (b2 never ran); second run a savepoint each.
+    expect(runs).toEqual({ a: 3, b: 2, bad: 2 })
+    expect(stored()).toEqual(['a', 'b', 'a2', 'b2'])
+  })
+
   it('refuses every write of the group with a 503 when the COMMIT itself fails, and keeps none', async () => {
     // A deferred foreign key is checked at COMMIT (sqlite.org/foreignkeys.html#fk_deferred).
     writer.pragma('defer_foreign_keys = ON')

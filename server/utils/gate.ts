@@ -39,15 +39,14 @@ async function sessionOf(event: H3Event): Promise<{ userId: string, sv: number }
   return value
 }
 
-let statements: ReturnType<typeof prepare> | undefined
-function prepare() {
-  const sqlite = useSqlite()
-  return {
-    user: sqlite.prepare<[string], { id: string, email: string, name: string, disabled: number, session_version: number }>(
-      'SELECT id, email, name, disabled, session_version FROM users WHERE id = ?'),
-    roles: sqlite.prepare<[string], { role: string }>('SELECT role FROM user_roles WHERE user_id = ?'),
-    crews: sqlite.prepare<[string], { crew_id: string }>('SELECT crew_id FROM memberships WHERE user_id = ?'),
-  }
+interface ActorRow { id: string, email: string, name: string, disabled: number, session_version: number, roles: string, crews: string }
+let actorRow: ReturnType<typeof prepareActorRow> | undefined
+// The account with its roles and crews in one statement (JSON arrays), read on every request.
+function prepareActorRow() {
+  return useSqlite().prepare<[string], ActorRow>(`SELECT u.id, u.email, u.name, u.disabled, u.session_version,
+    (SELECT json_group_array(role) FROM user_roles WHERE user_id = u.id) AS roles,
+    (SELECT json_group_array(crew_id) FROM memberships WHERE user_id = u.id) AS crews
+    FROM users u WHERE u.id = ?`)
 }
 
 // The one gate of every route: a sealed session whose account still exists, is enabled and
@@ -57,8 +56,8 @@ export async function requireActor(event: H3Event): Promise<Actor> {
   if (event.context.actor) return event.context.actor
   const session = await sessionOf(event)
   if (!session) throw signedOut()
-  statements ??= prepare()
-  const user = statements.user.get(session.userId)
+  actorRow ??= prepareActorRow()
+  const user = actorRow.get(session.userId)
   if (!user || user.disabled || user.session_version !== session.sv) {
     await clearUserSession(event)
     throw signedOut()
@@ -67,8 +66,8 @@ export async function requireActor(event: H3Event): Promise<Actor> {
     id: user.id,
     email: user.email,
     name: user.name,
-    roles: statements.roles.all(user.id).map(r => r.role as Role),
-    crewIds: statements.crews.all(user.id).map(r => r.crew_id),
+    roles: JSON.parse(user.roles) as Role[],
+    crewIds: JSON.parse(user.crews) as string[],
   }
   event.context.actor = actor
   return actor

@@ -37,6 +37,9 @@ export function valueNoise(width: number, height: number, spec: NoiseSpec, seed:
   const out = new Float32Array(width * height)
   const longSide = Math.max(width, height)
   const stretch = spec.stretch ?? 1
+  // Each octave's lattice and column weights first; then every row sums its octaves in a row
+  // buffer that stays in cache and is written out once (the same sums, in the same order).
+  const octaves: { amplitude: number, cellY: number, gw: number, lattice: Float32Array, ix: Int32Array, sx: Float32Array }[] = []
   let amplitude = 1
   let total = 0
   for (let o = 0; o < spec.octaves; o++) {
@@ -57,26 +60,31 @@ export function valueNoise(width: number, height: number, spec: NoiseSpec, seed:
       ix[x] = i
       sx[x] = f * f * (3 - 2 * f)
     }
-    for (let y = 0; y < height; y++) {
+    octaves.push({ amplitude, cellY, gw, lattice, ix, sx })
+    total += amplitude
+    amplitude *= 0.5
+  }
+  const inv = 1 / total
+  const sum = new Float32Array(width)
+  for (let y = 0; y < height; y++) {
+    sum.fill(0)
+    for (const { amplitude, cellY, gw, lattice, ix, sx } of octaves) {
       const g = (y + 0.5) / longSide / cellY
       const j = Math.floor(g)
       const f = g - j
       const sy = f * f * (3 - 2 * f)
       const r0 = j * gw
       const r1 = r0 + gw
-      const row = y * width
       for (let x = 0; x < width; x++) {
         const i = ix[x]!
         const s = sx[x]!
         const top = lattice[r0 + i]! + (lattice[r0 + i + 1]! - lattice[r0 + i]!) * s
         const bottom = lattice[r1 + i]! + (lattice[r1 + i + 1]! - lattice[r1 + i]!) * s
-        out[row + x]! += amplitude * (top + (bottom - top) * sy)
+        sum[x]! += amplitude * (top + (bottom - top) * sy)
       }
     }
-    total += amplitude
-    amplitude *= 0.5
+    const row = y * width
+    for (let x = 0; x < width; x++) out[row + x] = sum[x]! * inv
   }
-  const inv = 1 / total
-  for (let k = 0; k < out.length; k++) out[k]! *= inv
   return out
 }

@@ -40,6 +40,8 @@ export interface Rendering {
 export interface RenderScratch {
   rgba?: Uint8ClampedArray
   soften?: [Float32Array, Float32Array]
+  /** the noise fields of the sky, clouds and sea, shared by the conditions of one view at one size */
+  noise?: Map<string, Float32Array>
 }
 
 export interface RenderOptions {
@@ -317,15 +319,16 @@ export function measureContrast(rgba: Uint8ClampedArray | Uint8Array, coverage: 
   return { contrast: weberContrast(targetLuminance, backgroundLuminance), targetLuminance, backgroundLuminance }
 }
 
-// The conditions of one view share their noise fields, so each is computed once per size.
-const noiseCache = new Map<string, Float32Array>()
-function noiseField(width: number, height: number, spec: NoiseSpec, seed: number): Float32Array {
+// The conditions of one view share their noise fields, so with a scratch each is computed once
+// per size; the fields go with the scratch, so nothing outlives the view.
+function noiseField(width: number, height: number, spec: NoiseSpec, seed: number, scratch?: RenderScratch): Float32Array {
+  if (!scratch) return valueNoise(width, height, spec, seed)
+  scratch.noise ??= new Map()
   const key = `${width}x${height}:${spec.cell}:${spec.octaves}:${spec.stretch ?? 1}:${seed}`
-  let field = noiseCache.get(key)
+  let field = scratch.noise.get(key)
   if (!field) {
     field = valueNoise(width, height, spec, seed)
-    if (noiseCache.size >= 6) noiseCache.delete(noiseCache.keys().next().value!)
-    noiseCache.set(key, field)
+    scratch.noise.set(key, field)
   }
   return field
 }
@@ -341,9 +344,9 @@ export function renderCoverage(cov: Coverage, condition: Condition, seed: number
   const target = boundsOf(cov.coverage, width, height, 0.5)
   const horizon = options.backdrop === 'sea' && target.height > 0 ? target.y + target.height - 1 : height
 
-  const skyNoise = noiseField(width, height, { cell: 0.6, octaves: 3 }, seed)
-  const cloudNoise = scene.cloud ? noiseField(width, height, { cell: 0.45, octaves: 5 }, seed ^ 0x5BD1E995) : null
-  const seaNoise = horizon < height ? noiseField(width, height, { cell: 0.25, octaves: 3, stretch: 6 }, seed ^ 0x1B873593) : null
+  const skyNoise = noiseField(width, height, { cell: 0.6, octaves: 3 }, seed, options.scratch)
+  const cloudNoise = scene.cloud ? noiseField(width, height, { cell: 0.45, octaves: 5 }, seed ^ 0x5BD1E995, options.scratch) : null
+  const seaNoise = horizon < height ? noiseField(width, height, { cell: 0.25, octaves: 3, stretch: 6 }, seed ^ 0x1B873593, options.scratch) : null
 
   const random = seededRandom(conditionSeed)
   const sunX = random() * width

@@ -65,8 +65,10 @@ describe('renderCondition', () => {
         const mask = framedMask(index, aspect)
         for (const size of [320, 640]) {
           const cov = coverageAt(mask, size)
+          // One scratch for the conditions of a size, as the pipeline does: they share its noise fields.
+          const scratch = {}
           for (const condition of CONDITIONS) {
-            const r = renderCoverage(cov, condition, index * 31 + size, { backdrop: type.category === 'vessel' ? 'sea' : 'sky' })
+            const r = renderCoverage(cov, condition, index * 31 + size, { backdrop: type.category === 'vessel' ? 'sea' : 'sky', scratch })
             const band = CONTRAST_BANDS[condition]
             const ok = r.contrast >= band.min && r.contrast <= band.max
               && r.backgroundLuminance >= band.background.min && r.backgroundLuminance <= band.background.max

@@ -1,8 +1,9 @@
 // WAL checkpoints on a thread of their own, so the request thread never copies pages back into the
 // database file (nor waits for its fsync) inside a COMMIT. A worker thread with its own connection
 // runs PRAGMA wal_checkpoint(PASSIVE), which never blocks the writer: every CHECKPOINT_BUSY_MS
-// while the last round found frames to copy, else every CHECKPOINT_IDLE_MS, so that little is left
-// for any checkpoint on the request thread. That connection keeps SQLite's automatic checkpoint,
+// while the last round copied at least CHECKPOINT_BUSY_FRAMES pages (heavy writing), else every
+// CHECKPOINT_IDLE_MS, so that little is left for any checkpoint on the request thread and light
+// writing costs few rounds (each one that copies ends with an fsync). That connection keeps SQLite's automatic checkpoint,
 // set higher, as the safety net should the thread fall behind or stop.
 import { createRequire } from 'node:module'
 import { join } from 'node:path'
@@ -11,6 +12,7 @@ import type { Database } from 'better-sqlite3'
 
 export const CHECKPOINT_BUSY_MS = 10
 export const CHECKPOINT_IDLE_MS = 100
+export const CHECKPOINT_BUSY_FRAMES = 100
 // Pages in the WAL (4 KB each) before a COMMIT on the request thread checkpoints by itself. Under a
 // steady stream of commits SQLite rarely finds a moment to start the WAL over (it needs a write to
 // begin with every frame copied), so the WAL grows to this size; the request thread's checkpoint
@@ -29,7 +31,7 @@ function round() {
   let copied = 0
   try { copied = checkpoint.get().checkpointed }
   catch (error) { parentPort.postMessage({ error: String(error && error.message || error) }) }
-  timer = setTimeout(round, copied > 0 ? workerData.busyMs : workerData.idleMs)
+  timer = setTimeout(round, copied >= workerData.busyFrames ? workerData.busyMs : workerData.idleMs)
 }
 timer = setTimeout(round, workerData.idleMs)
 parentPort.on('message', (m) => {
@@ -57,11 +59,11 @@ export interface Checkpointer {
 }
 
 /** Starts the checkpoint thread for the open WAL database `sqlite` (a file, not :memory:). */
-export function startCheckpointer(sqlite: Database, opts: { busyMs?: number, idleMs?: number } = {}): Checkpointer {
+export function startCheckpointer(sqlite: Database, opts: { busyMs?: number, idleMs?: number, busyFrames?: number } = {}): Checkpointer {
   sqlite.pragma(`wal_autocheckpoint = ${FALLBACK_AUTOCHECKPOINT_PAGES}`)
   const worker = new Worker(THREAD, {
     eval: true,
-    workerData: { driver: driverPath(), file: sqlite.name, busyMs: opts.busyMs ?? CHECKPOINT_BUSY_MS, idleMs: opts.idleMs ?? CHECKPOINT_IDLE_MS },
+    workerData: { driver: driverPath(), file: sqlite.name, busyMs: opts.busyMs ?? CHECKPOINT_BUSY_MS, idleMs: opts.idleMs ?? CHECKPOINT_IDLE_MS, busyFrames: opts.busyFrames ?? CHECKPOINT_BUSY_FRAMES },
   })
   let warned = false
   worker.on('message', (m: { error?: string }) => {

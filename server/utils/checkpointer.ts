@@ -3,8 +3,8 @@
 // runs PRAGMA wal_checkpoint(PASSIVE), which never blocks the writer: every CHECKPOINT_BUSY_MS
 // while the last round copied at least CHECKPOINT_BUSY_FRAMES pages (heavy writing), else every
 // CHECKPOINT_IDLE_MS, so that little is left for any checkpoint on the request thread and light
-// writing costs few rounds (each one that copies ends with an fsync). That connection keeps SQLite's automatic checkpoint,
-// set higher, as the safety net should the thread fall behind or stop.
+// writing costs few rounds (each one that copies ends with an fsync). The request connection keeps
+// SQLite's automatic checkpoint, set higher, as the safety net should the thread fall behind or stop.
 import { createRequire } from 'node:module'
 import { join } from 'node:path'
 import { Worker } from 'node:worker_threads'

@@ -82,7 +82,8 @@ function flush(sqlite: Database, queue: Queue) {
 /**
  * Runs fn inside the next shared transaction on sqlite and resolves with its result after the
  * COMMIT. fn must be synchronous and only touch this database (it may open its own nested
- * transactions); it may run twice, when another job of its group throws (the first run is rolled back). Outside a request (scripts, tests) call fn inside sqlite.transaction directly.
+ * transactions); it may run twice, when another job of its group throws (the first run is rolled
+ * back). Outside a request (scripts, tests) call fn inside sqlite.transaction directly.
  */
 export function inGroupCommit<T>(sqlite: Database, fn: () => T): Promise<T> {
   let queue = queues.get(sqlite)

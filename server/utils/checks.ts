@@ -16,7 +16,7 @@ import { isUntilCall, maskUrlFor, viewsWithRenderings } from './drill-plan'
 import type { ContentVariant, DeckContent, PlannedChoice } from './drill-plan'
 import type { Actor } from './gate'
 import { hasRole } from './gate'
-import { newId } from './ids'
+import { newCallId, newId } from './ids'
 import { loadDrillContent, watchDay } from './watch'
 
 const fail = (statusCode: number, message: string) => createError({ statusCode, message })
@@ -399,7 +399,7 @@ export function recordCheckCall(sqlite: Database, f: CheckCallFields, nowMs = Da
     sqlite.prepare(`INSERT INTO calls (id, sighting_id, user_id, deck_id, track_id, target_type_id, called_type_id, aspect, condition,
       choice_id, typed, correct, grade, anticipation, latency_ms, frames_shown, frame_interval_ms, called_at, received_at, offline,
       before, after, result) VALUES (?, ?, ?, ?, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL, NULL, ?)
-      ON CONFLICT (sighting_id) DO NOTHING`).run(newId(), f.sightingId, f.userId, f.deckId, f.targetTypeId, f.calledTypeId, f.aspect,
+      ON CONFLICT (sighting_id) DO NOTHING`).run(newCallId(), f.sightingId, f.userId, f.deckId, f.targetTypeId, f.calledTypeId, f.aspect,
       f.condition, f.choiceId, f.typed, f.correct ? 1 : 0, f.grade, f.anticipation ? 1 : 0, f.latencyMs, f.framesShown, f.frameIntervalMs,
       f.calledAt, nowMs, f.offline ? 1 : 0, JSON.stringify(result))
     const left = (sqlite.prepare(`SELECT count(*) AS n FROM sightings s WHERE s.watch_id = ?

@@ -16,7 +16,7 @@ import {
   drillableKeys, isUntilCall, maskUrlFor, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatch, reshowOrder, WATCH_MAX_SIGHTINGS,
 } from './drill-plan'
 import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedSighting, PlanTrack } from './drill-plan'
-import { newId } from './ids'
+import { newCallId, newId } from './ids'
 import { recordCheckCall } from './checks'
 import type { CheckCallRecorded } from '../../shared/schemas/checks'
 
@@ -103,7 +103,7 @@ const SQL = {
     VALUES (@id, @sightingId, @userId, @deckId, @trackId, @targetTypeId, @calledTypeId, @aspect, @condition, @choiceId, @typed,
     @correct, @grade, @anticipation, @latencyMs, @framesShown, @frameIntervalMs, @calledAt, @receivedAt, @offline, @before,
     @after, @result) ON CONFLICT (sighting_id) DO NOTHING`,
-  uncalled: `SELECT s.id, s.target_type_id AS typeId FROM sightings s WHERE s.watch_id = ? AND s.id <> ?
+  uncalled: `SELECT s.id, s.target_type_id AS typeId, s.position FROM sightings s WHERE s.watch_id = ? AND s.id <> ?
     AND s.voided_at IS NULL AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY s.position, s.issued_at`,
   anyUncalled: `SELECT 1 FROM sightings s WHERE s.watch_id = ? AND s.id <> ? AND s.voided_at IS NULL
     AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY s.position DESC LIMIT 1`,
@@ -524,7 +524,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     }
     // The whole answer is known before the insert, so the stored result is written with the call itself.
     // Only a re-show needs the sightings still to come; otherwise whether any is left.
-    const remaining = reshow ? stmt(sqlite, 'uncalled').all(s.watchId, sightingId) as { id: string, typeId: string }[] : []
+    const remaining = reshow ? stmt(sqlite, 'uncalled').all(s.watchId, sightingId) as { id: string, typeId: string, position: number }[] : []
     const anyLeft = reshow ? remaining.length > 0 : !!stmt(sqlite, 'anyUncalled').get(s.watchId, sightingId)
     let order: string[] = []
     if (reshow) {
@@ -533,7 +533,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       result.appended = [issuedFromPlan(reshow.id, s.position + 1 + order.indexOf(reshow.id), reshow.plan, s.answerMode ?? 'choices', true)]
     }
     const info = stmt(sqlite, 'insertCall').run({
-      id: newId(),
+      id: newCallId(),
       sightingId,
       userId,
       deckId: s.deckId,
@@ -562,9 +562,14 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     }
     if (trackRow && after) stmt(sqlite, 'updateTrack').run({ id: trackRow.id, ...after, now: nowMs })
     if (reshow) {
-      const maxPos = (stmt(sqlite, 'maxPosition').get(s.watchId) as { p: number }).p
-      insertPlanned(sqlite, s.watchId, userId, reshow.plan, maxPos + 1, nowMs, sightingId, reshow.id)
-      order.forEach((id, i) => stmt(sqlite, 'setPosition').run(s.position + 1 + i, id))
+      // The re-show goes in at its place; of the others only those that move are written (the ones
+      // after it, mostly), since every row written is one more page in the commit.
+      insertPlanned(sqlite, s.watchId, userId, reshow.plan, s.position + 1 + order.indexOf(reshow.id), nowMs, sightingId, reshow.id)
+      const positionOf = new Map(remaining.map(r => [r.id, r.position]))
+      order.forEach((id, i) => {
+        const position = s.position + 1 + i
+        if (id !== reshow.id && positionOf.get(id) !== position) stmt(sqlite, 'setPosition').run(position, id)
+      })
     }
     else if (!anyLeft) {
       closeWatch(sqlite, s.watchId, nowMs)

@@ -204,6 +204,25 @@ describe('POST /api/sightings/[id]/call', () => {
     expect(sightingRows(watch.id!).filter(r => r.reshow_of === b!.id)).toHaveLength(1)
   })
 
+  it('stores calls under time-ordered ids: UUIDv7 (RFC 9562, section 5.7), in the order of the calls', async () => {
+    const { client, watch } = await newWatch()
+    const t0 = Date.now()
+    const ids: string[] = []
+    for (const s of watch.sightings.slice(0, 3)) {
+      await call(client, s.id, goodCall(answerOf(s.id), 800))
+      ids.push(callRows(s.id)[0]!.id as string)
+    }
+    for (const id of ids) {
+      // Version 7 in the 13th hex digit, the variant bits 10 in the 17th (RFC 9562, sections 4.1, 4.2).
+      expect(id).toMatch(/^[0-9a-f]{8}-[0-9a-f]{4}-7[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/)
+      // The first 48 bits: Unix time in milliseconds.
+      const ms = Number.parseInt(id.replaceAll('-', '').slice(0, 12), 16)
+      expect(ms).toBeGreaterThanOrEqual(t0)
+      expect(ms).toBeLessThanOrEqual(Date.now())
+    }
+    expect([...ids].sort()).toEqual(ids)
+  })
+
   it('refuses another trainee\'s call on my sighting, and changes nothing', async () => {
     const mine = await newWatch()
     const other = await drillTrainee(fx.crewId)

@@ -1,5 +1,6 @@
 // POST /api/sightings/[id]/call under 50 signed-in trainees (autocannon, 50 connections, loopback),
-// each request a different issued sighting, beside GET /api/health measured in the same run.
+// each request a different issued sighting, then resends of the same calls, beside GET /api/health
+// measured in the same run.
 // Run: npx tsx tests/bench/calls.bench.ts [--json]
 import { spawn } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
@@ -153,12 +154,18 @@ try {
   const calls = await run({ url: base, connections: CONNECTIONS, amount: pairs.length, requests: callRequests(pairs) })
   const callsSeconds = calls.seconds
   const cpu1 = serverCpuMs(child.pid!)
+  // The same route answering resends of those calls: the same gate, body and validation, two
+  // indexed reads and the stored result, no write. The ceiling for any call on this stack and machine.
+  const resends = await run({ url: base, connections: CONNECTIONS, amount: pairs.length, requests: callRequests(pairs) })
+  const cpu1r = serverCpuMs(child.pid!)
   const trivial = await run({ url: `${base}/api/health`, connections: CONNECTIONS, duration: 5 })
   const cpu2 = serverCpuMs(child.pid!)
   // The server's own CPU time a request (user + system, every thread): less noisy than a rate,
   // since the load generator shares the two cores.
   const cpuPerCallUs = Math.round((cpu1 - cpu0) * 1000 / calls.requests.total)
-  const cpuPerTrivialUs = Math.round((cpu2 - cpu1) * 1000 / trivial.requests.total)
+  const cpuPerTrivialUs = Math.round((cpu2 - cpu1r) * 1000 / trivial.requests.total)
+  const cpuPerResendUs = Math.round((cpu1r - cpu1) * 1000 / resends.requests.total)
+  const resendsPerSec = Math.round(resends.requests.total / resends.seconds)
 
   const stored = (new Database(env.NUXT_DATABASE_PATH!, { readonly: true }).prepare('SELECT count(*) AS n FROM calls').get() as { n: number }).n
   const callsPerSec = Math.round(calls.requests.total / callsSeconds)
@@ -169,15 +176,19 @@ try {
     p50Ms: calls.latency.p50,
     p99Ms: calls.latency.p99,
     ratioToTrivial: Math.round((callsPerSec / trivialPerSec) * 1000) / 1000,
+    resendsPerSec,
+    resendRatioToTrivial: Math.round((resendsPerSec / trivialPerSec) * 1000) / 1000,
     cpuPerCallUs,
+    cpuPerResendUs,
     cpuPerTrivialUs,
   }
   if (json) console.log(JSON.stringify(figures))
   else {
     console.log(`calls: ${calls.requests.total} in ${callsSeconds.toFixed(2)} s (${calls.non2xx} not 2xx, ${calls.errors} errors); ${stored} calls stored`)
     console.log(`callsPerSec ${callsPerSec}  p50Ms ${calls.latency.p50}  p90Ms ${calls.latency.p90}  p99Ms ${calls.latency.p99}  max ${calls.latency.max} ms`)
+    console.log(`resends of the same calls (no write): ${resendsPerSec}/s  p50Ms ${resends.latency.p50}  p99Ms ${resends.latency.p99}  (${resends.non2xx} not 2xx); ratio to trivial ${figures.resendRatioToTrivial}`)
     console.log(`trivial GET /api/health: ${trivialPerSec}/s  p50Ms ${trivial.latency.p50}  p99Ms ${trivial.latency.p99}`)
-    console.log(`server CPU a request: call ${cpuPerCallUs} us, trivial ${cpuPerTrivialUs} us`)
+    console.log(`server CPU a request: call ${cpuPerCallUs} us, resend ${cpuPerResendUs} us, trivial ${cpuPerTrivialUs} us`)
     console.log(`ratioToTrivial ${figures.ratioToTrivial}  (targets: >= 1500 calls/s, p99 < 25 ms, ratio >= 0.4)`)
   }
 }

@@ -12,7 +12,8 @@ export function newId() {
 // A call's id: a UUIDv7 (RFC 9562), time-ordered, so each new call lands on the last page of the
 // calls primary-key index instead of a random one, and a group commit writes one page fewer a call
 // (7.5 WAL frames a call instead of 8.3 in a replay of 11,000 calls). Call ids are never shown nor
-// used to reach anything; their creation time is already in the row.
+// used to reach anything; the time in one is when its row was written (for seeded history, the
+// seeding), while the call's own times are its called_at and received_at columns.
 export function newCallId() {
   return uuidv7()
 }

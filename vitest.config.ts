@@ -9,7 +9,9 @@ const alias = { '#shared': r('./shared'), '~~': r('./'), '@@': r('./') }
 export default defineConfig({
   test: {
     projects: [
-      { resolve: { alias }, test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' } },
+      // Unit tests assert values, never speed (speed is `npm run bench`): a generous timeout so a
+      // loaded machine does not fail them.
+      { resolve: { alias }, test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node', testTimeout: 60_000 } },
       {
         resolve: { alias },
         test: {

@@ -26,8 +26,13 @@ export function normaliseName(name: string): string {
     .replace(/[^\p{L}\p{N}]/gu, '')
 }
 
-/** Typos forgiven for a name of this normalised length: 1 up to 5 characters, 2 above. */
+/**
+ * Typos forgiven for a name of this normalised length (design value, no source): none up to 3
+ * characters, where one edit already makes another short name (a one-letter name must not
+ * accept any one letter), 1 up to 5 characters, 2 above.
+ */
 export function typoTolerance(normalisedLength: number): number {
+  if (normalisedLength <= 3) return 0
   return normalisedLength <= 5 ? 1 : 2
 }
 

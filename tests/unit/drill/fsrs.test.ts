@@ -122,6 +122,30 @@ describe('interval for retention r (check-values.md: I = S·(r^(1/D) − 1)/F, c
   })
 })
 
+describe('stability after a right call, FSRS-6 formula worked by hand', () => {
+  // Published FSRS-6 recall stability (open-spaced-repetition, "The Algorithm"):
+  // S' = S·(e^w8·(11 − D)·S^(−w9)·(e^(w10·(1 − R)) − 1)·(w15 if Hard)·(w16 if Easy) + 1),
+  // with the library's default weights (ts-fsrs constant.ts) as inputs. For S = 10, D = 5,
+  // 10 days elapsed (R = 0.9) and Good: e^1.8722 = 6.5023, 10^−0.1666 = 0.6817,
+  // e^(0.0796) − 1 = 0.08285, so S' = 10·(6.5023·6·0.6817·0.08285 + 1) ≈ 32.03.
+  const w = default_w
+  const byHand = (s: number, d: number, r: number, factor = 1) =>
+    s * (Math.exp(w[8]!) * (11 - d) * s ** -w[9]! * (Math.exp(w[10]! * (1 - r)) - 1) * factor + 1)
+
+  it('S = 10, D = 5, 10 days, sure (Good): S\' ≈ 32.03', () => {
+    expect(byHand(10, 5, 0.9)).toBeCloseTo(32.03, 2)
+    const { after } = reviewTrack(reviewed(10, 5), 'sure', T0 + 10 * DAY, { retention: 0.9 })
+    expect(after.stability).toBeCloseTo(32.03, 1)
+  })
+
+  it('hesitant (Hard) takes w15, instant (Easy) takes w16', () => {
+    const hard = reviewTrack(reviewed(10, 5), 'hesitant', T0 + 10 * DAY, { retention: 0.9 }).after
+    const easy = reviewTrack(reviewed(10, 5), 'instant', T0 + 10 * DAY, { retention: 0.9 }).after
+    expect(hard.stability).toBeCloseTo(byHand(10, 5, 0.9, w[15]!), 1)
+    expect(easy.stability).toBeCloseTo(byHand(10, 5, 0.9, w[16]!), 1)
+  })
+})
+
 describe('reviewTrack', () => {
   it('maps grades to the ts-fsrs Rating enum (product.md, The drill 1)', () => {
     expect(gradeToRating('missed')).toBe(Rating.Again)

@@ -13,10 +13,8 @@ describe('processImage', () => {
     const png = await encodePng(drawSilhouette(DEMO_TARGET_TYPES[4]!.params, 'plan', { width: 1600, height: 1000 }))
     await processImage(png, { sizes: [320], conditions: ['sunlit'] })
     const steps: number[] = []
-    const started = performance.now()
+    // Its time is a figure of `npm run bench` (upload-pipeline), not asserted here.
     const result = await processImage(png, { onProgress: p => steps.push(p) })
-    const elapsed = performance.now() - started
-    console.info(`processImage of a 1600 x 1000 PNG: ${elapsed.toFixed(0)} ms`)
 
     expect(result.source).toMatchObject({ mime: 'image/png', width: 1600, height: 1000 })
     // SHA-256 as computed by Node's crypto (FIPS 180-4).
@@ -35,7 +33,6 @@ describe('processImage', () => {
     }
     expect(steps.at(-1)).toBe(1)
     expect(steps.every((p, i) => i === 0 || p >= steps[i - 1]!)).toBe(true)
-    expect(elapsed).toBeLessThan(5000)
   })
 
   it('renders the same upload the same way twice', async () => {

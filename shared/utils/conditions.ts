@@ -56,12 +56,6 @@ export const CONTRAST_BANDS: Readonly<Record<Condition, ContrastBand>> = {
   'goggles': { min: -0.75, max: -0.3, background: { min: 0, max: 0.06 } },
 }
 
-export function isWithinBand(condition: Condition, contrast: number, backgroundLuminance: number): boolean {
-  const band = CONTRAST_BANDS[condition]
-  return contrast >= band.min && contrast <= band.max
-    && backgroundLuminance >= band.background.min && backgroundLuminance <= band.background.max
-}
-
 export const ASPECT_LABELS: Readonly<Record<Aspect, string>> = {
   'head-on': 'Head-on',
   'tail-on': 'Tail-on',
@@ -74,8 +68,4 @@ export const ASPECT_LABELS: Readonly<Record<Aspect, string>> = {
 
 export function isCondition(value: unknown): value is Condition {
   return typeof value === 'string' && (CONDITIONS as readonly string[]).includes(value)
-}
-
-export function isAspect(value: unknown): value is Aspect {
-  return typeof value === 'string' && (ASPECTS as readonly string[]).includes(value)
 }

@@ -36,11 +36,6 @@ function assertMs(name: string, value: number, min: number, max: number): void {
   }
 }
 
-/** True when a latency can be graded at all (finite, 0..MAX_LATENCY_MS). */
-export function isPlausibleLatency(latencyMs: number): boolean {
-  return Number.isFinite(latencyMs) && latencyMs >= 0 && latencyMs <= MAX_LATENCY_MS
-}
-
 /**
  * Grades one call. All boundaries are inclusive on the faster side:
  * - latency null, or latency > windowMs, or a wrong call → `missed`;

@@ -39,12 +39,12 @@ function postWithHost(base: string, path: string, body: unknown, host: string, c
 
 interface Mail { to: string, text: string, html: string }
 
-// The mails to an address, newest first, once there are at least `count` (the reset mail is sent
-// just after the answer).
-async function mailsTo(admin: Client, to: string, count: number) {
+// The mails to an address with a link to `path`, newest first, once there are at least `count`
+// (the reset mail is sent a moment after the answer).
+async function mailsTo(admin: Client, to: string, path: string, count: number) {
   const until = Date.now() + 10_000
   for (;;) {
-    const mails = (await admin.get<Mail[]>('/api/outbox')).body.filter(m => m.to === to)
+    const mails = (await admin.get<Mail[]>('/api/outbox')).body.filter(m => m.to === to && m.text.includes(`${path}?token=`))
     if (mails.length >= count || Date.now() > until) return mails
     await new Promise(r => setTimeout(r, 50))
   }
@@ -67,7 +67,7 @@ describe('links in mail come from NUXT_PUBLIC_URL only', () => {
     const inv = await postWithHost(base, '/api/invites', { email: invited, role: 'trainee', crewId: null }, EVIL, admin.cookieHeader())
     expect(inv.status).toBe(201)
     for (const [to, path] of [[p.email, '/reset'], [invited, '/invite']] as const) {
-      const [mail] = await mailsTo(admin, to, 1)
+      const [mail] = await mailsTo(admin, to, path, 1)
       expect(mail!.text).toContain(`${base}${path}?token=`)
       expect(mail!.text + mail!.html).not.toContain(EVIL)
     }
@@ -96,9 +96,9 @@ describe('reset links', () => {
     const admin = await signedIn('admin@glint.demo')
     const p = await freshPerson('trainee', null)
     expect((await new Client().post('/api/auth/reset-request', { email: p.email })).status).toBe(200)
-    await mailsTo(admin, p.email, 1)
+    await mailsTo(admin, p.email, '/reset', 1)
     expect((await new Client().post('/api/auth/reset-request', { email: p.email })).status).toBe(200)
-    const [newer, older] = await mailsTo(admin, p.email, 2)
+    const [newer, older] = await mailsTo(admin, p.email, '/reset', 2)
     expect((await new Client().post('/api/auth/reset', { token: tokenIn(newer!, '/reset'), password: 'a quiet grey morning' })).status).toBe(200)
     const stale = await new Client().post('/api/auth/reset', { token: tokenIn(older!, '/reset'), password: 'another grey morning' })
     expect(stale.status).toBe(400)
@@ -151,7 +151,7 @@ describe('invitations', () => {
     const admin = await signedIn('admin@glint.demo')
     const email = `twice-${Date.now().toString(36)}@glint.test`
     for (let i = 0; i < 3; i++) expect((await admin.post('/api/invites', { email, role: 'trainee', crewId: null })).status).toBe(201)
-    const tokens = (await mailsTo(admin, email, 3)).map(m => tokenIn(m, '/invite'))
+    const tokens = (await mailsTo(admin, email, '/invite', 3)).map(m => tokenIn(m, '/invite'))
     const answers = await Promise.all(tokens.map(token => new Client().post('/api/invites/accept', { token, name: 'Twice Invited', password: 'a long enough test phrase' })))
     expect(answers.map(a => a.status).sort()).toEqual([201, 409, 409])
     for (const a of answers.filter(x => x.status === 409)) expect(a.body.message).toMatch(/already has a Glint account/)

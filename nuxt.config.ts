@@ -26,7 +26,10 @@ export default defineNuxtConfig({
     uploadsDir: 'uploads',
     mailUrl: '',
     mailFrom: 'Glint <no-reply@glint.local>',
+    // The address people open Glint at; the only source of links in mail (NUXT_PUBLIC_URL).
     publicUrl: '',
+    // Reverse proxies whose X-Forwarded-For is believed, as addresses or CIDR ranges (NUXT_TRUSTED_PROXIES).
+    trustedProxies: '',
     session: {
       // Sessions end after 12 hours (the module's default never expires).
       maxAge: 60 * 60 * 12,

@@ -8,6 +8,8 @@ if [ -z "${NUXT_SESSION_PASSWORD:-}" ]; then
   NUXT_SESSION_PASSWORD="$(cat .data/session-password)"
   export NUXT_SESSION_PASSWORD
 fi
+# Links in mail (invitations, password links) are built from this address only.
+export NUXT_PUBLIC_URL="${NUXT_PUBLIC_URL:-http://localhost:${PORT:-3000}}"
 npm run --silent db:migrate
 npm run --silent db:seed
 if [ ! -f .output/server/index.mjs ] || [ -n "$(find app server shared public nuxt.config.ts tailwind.config.ts -newer .output/server/index.mjs -type f -print -quit)" ]; then

@@ -52,7 +52,9 @@ export function useMe() {
     await $fetch('/api/auth/logout', { method: 'POST' }).catch(() => {})
     me.value = null
     keepMe(null)
-    await navigateTo('/login')
+    await forgetPersonalData()
+    // A full load of the sign-in page also drops what the stores hold in memory.
+    reloadNuxtApp({ path: '/login', force: true })
   }
 
   return { me, loaded, refresh, has, signOut, keepMe }

@@ -86,6 +86,23 @@ export const offlineWatch = {
   async remove(key: number) {
     await (await db()).delete('queue', key)
   },
+  /** At sign-out: every stored watch and pack (they hold answers) goes. Calls still waiting to
+   *  sync stay, under their person's id, and are sent when that person signs in again. */
+  async forgetWatches() {
+    await (await db()).clear('watches')
+  },
+}
+
+// The service worker's runtime caches (nuxt.config.ts, pwa.workbox.runtimeCaching): pages as the
+// person saw them, and the images of their watches.
+const PERSONAL_CACHES = ['glint-pages', 'glint-watch-images']
+
+/** Sign-out on a shared phone: drops what the next person could read of this one. */
+export async function forgetPersonalData() {
+  if (!import.meta.client) return
+  const cleared: Promise<unknown>[] = [offlineWatch.forgetWatches().catch(() => {})]
+  if ('caches' in window) cleared.push(...PERSONAL_CACHES.map(name => caches.delete(name).catch(() => false)))
+  await Promise.all(cleared)
 }
 
 /** True when a $fetch failed without an answer from the server (no connection, aborted). */

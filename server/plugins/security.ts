@@ -59,12 +59,18 @@ export default defineNitroPlugin((nitroApp) => {
     // The dev server's hot reload injects styles and scripts; the policy applies to the built app.
     if (!import.meta.dev) headers['Content-Security-Policy'] = contentSecurityPolicy()
     if (isHttps(event)) headers['Strict-Transport-Security'] = 'max-age=31536000; includeSubDomains'
+    // API answers are a person's data: no browser or shared cache keeps them (RFC 9111 §5.2.2.5).
+    if (event.path.startsWith('/api/')) headers['Cache-Control'] = 'no-store'
     setResponseHeaders(event, headers)
   })
 
   nitroApp.hooks.hook('render:response', (response) => {
+    // Rendered pages (HTML and their payloads) carry the signed-in person: no-store as above,
+    // and no X-Powered-By naming the framework (OWASP Secure Headers Project).
+    const kept = Object.entries(response.headers ?? {}).filter(([name]) => name.toLowerCase() !== 'x-powered-by')
+    response.headers = { ...Object.fromEntries(kept), 'cache-control': 'no-store' }
     if (import.meta.dev || typeof response.body !== 'string') return
-    const type = String(response.headers?.['content-type'] ?? '')
+    const type = String(response.headers['content-type'] ?? '')
     if (!type.includes('text/html')) return
     const { scripts, styles } = inlineHashes(response.body)
     response.headers = { ...response.headers, 'content-security-policy': contentSecurityPolicy(scripts, styles) }

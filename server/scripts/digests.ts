@@ -23,6 +23,11 @@ const config = {
   mailFrom: process.env.NUXT_MAIL_FROM || 'Glint <no-reply@glint.local>',
   publicUrl: process.env.NUXT_PUBLIC_URL || '',
 }
+// Digests carry a link to the app, built from NUXT_PUBLIC_URL only (as on the server).
+if (!config.publicUrl) {
+  console.error('NUXT_PUBLIC_URL is not set: digests carry a link to Glint and are not sent without it. Set it to the address people open Glint at.')
+  process.exit(2)
+}
 const { useDb } = await import('../utils/db')
 const { newId } = await import('../utils/ids')
 Object.assign(globalThis, { useRuntimeConfig: () => config, useDb, tables: schema, newId })

@@ -1,4 +1,5 @@
 import { SAFETY_LINE, escapeHtml } from '../../shared/utils/mail-text'
+import { createError } from 'h3'
 import nodemailer from 'nodemailer'
 import type { Transporter } from 'nodemailer'
 
@@ -45,11 +46,32 @@ export async function sendMail(message: MailMessage) {
   return { status, error }
 }
 
-export function appUrl(event?: import('h3').H3Event) {
-  const configured = useRuntimeConfig().publicUrl
-  if (configured) return configured.replace(/\/$/, '')
-  return event ? getRequestURL(event).origin : 'http://localhost:3000'
+const NO_PUBLIC_URL = 'This server cannot mail links yet: its administrator must set NUXT_PUBLIC_URL to the address people open Glint at.'
+
+// The configured public address without a trailing slash, or null when unset or not an http(s) URL.
+export function configuredPublicUrl(): string | null {
+  const configured = String(useRuntimeConfig().publicUrl ?? '').trim()
+  if (!configured) return null
+  try {
+    const url = new URL(configured)
+    return url.protocol === 'https:' || url.protocol === 'http:' ? configured.replace(/\/+$/, '') : null
+  }
+  catch {
+    return null
+  }
 }
+
+// Links in mail come from configuration only, never from the request: its Host header is chosen
+// by whoever sends it (OWASP Web Security Testing Guide, WSTG-INPV-17, host header injection).
+// With none configured the mail is refused (503), except on the dev server.
+export function appUrl(): string {
+  const configured = configuredPublicUrl()
+  if (configured) return configured
+  if (import.meta.dev) return `http://localhost:${process.env.PORT || 3000}`
+  throw createError({ statusCode: 503, message: NO_PUBLIC_URL })
+}
+
+export const publicUrlMissingMessage = `[glint] NUXT_PUBLIC_URL is not set (or not an http(s) address): invitations, password links and digests will not be mailed. Set it to the address people open Glint at, e.g. https://glint.example.org, and restart.`
 
 // A plain mail with one link, in text and HTML.
 export function linkMail(opts: { to: string, subject: string, lines: string[], link: string, linkLabel: string }): MailMessage {

@@ -1,10 +1,13 @@
 import type { H3Event } from 'h3'
+import proxyaddr from 'proxy-addr'
 import { RateLimiterMemory, RateLimiterRes } from 'rate-limiter-flexible'
 
 // Limits per account and per address (rate-limiter-flexible). Counters live in the one server process.
+// Sign-in: 10 failures per account and address pair, 50 per account from anywhere, in 15 minutes
+// (NIST SP 800-63B §5.2.2 allows at most 100 consecutive failures on one account).
 const limiters = {
-  loginAccount: new RateLimiterMemory({ keyPrefix: 'login-acct', points: 10, duration: 15 * 60, blockDuration: 15 * 60 }),
-  loginAddress: new RateLimiterMemory({ keyPrefix: 'login-addr', points: 50, duration: 15 * 60, blockDuration: 15 * 60 }),
+  loginPair: new RateLimiterMemory({ keyPrefix: 'login-pair', points: 10, duration: 15 * 60, blockDuration: 15 * 60 }),
+  loginAccount: new RateLimiterMemory({ keyPrefix: 'login-acct', points: 50, duration: 15 * 60, blockDuration: 15 * 60 }),
   resetAccount: new RateLimiterMemory({ keyPrefix: 'reset-acct', points: 5, duration: 60 * 60 }),
   resetAddress: new RateLimiterMemory({ keyPrefix: 'reset-addr', points: 30, duration: 60 * 60 }),
   inviteAccount: new RateLimiterMemory({ keyPrefix: 'invite-acct', points: 60, duration: 60 * 60 }),
@@ -12,8 +15,33 @@ const limiters = {
 }
 export type LimiterName = keyof typeof limiters
 
+let trust: ((addr: string, i: number) => boolean) | undefined
+
+// NUXT_TRUSTED_PROXIES: addresses or CIDR ranges (comma or space separated) of the reverse proxies
+// whose X-Forwarded-For is believed; none by default, so a client cannot name its own address.
+function trustedProxies() {
+  if (!trust) {
+    const list = String(useRuntimeConfig().trustedProxies ?? '').split(/[\s,]+/).filter(Boolean)
+    try {
+      trust = proxyaddr.compile(list)
+    }
+    catch (e) {
+      console.error(`[rate-limit] NUXT_TRUSTED_PROXIES is not a list of addresses or ranges (${(e as Error).message}); trusting no proxy.`)
+      trust = proxyaddr.compile([])
+    }
+  }
+  return trust
+}
+
+// The client's address: the socket's, or, behind a trusted proxy, the nearest X-Forwarded-For
+// entry that no trusted proxy added (proxy-addr walks the list from the right).
 export function clientAddress(event: H3Event) {
-  return getRequestIP(event, { xForwardedFor: false }) || 'unknown'
+  try {
+    return proxyaddr(event.node.req, trustedProxies()) || 'unknown'
+  }
+  catch {
+    return 'unknown'
+  }
 }
 
 function tooMany(res: RateLimiterRes) {
@@ -25,12 +53,6 @@ function tooMany(res: RateLimiterRes) {
   })
 }
 
-// Refuses with 429 while the key is blocked, without spending a point.
-export async function assertNotLimited(name: LimiterName, key: string) {
-  const res = await limiters[name].get(key)
-  if (res && res.consumedPoints >= limiters[name].points) throw tooMany(res)
-}
-
 // Spends a point; refuses with 429 once the limit is passed.
 export async function spend(name: LimiterName, key: string) {
   try {
@@ -40,6 +62,26 @@ export async function spend(name: LimiterName, key: string) {
     if (e instanceof RateLimiterRes) throw tooMany(e)
     throw e
   }
+}
+
+// Spends a point under each key, all or none: when one refuses, the points already taken are given back.
+export async function spendAll(...spends: [LimiterName, string][]) {
+  const taken: [LimiterName, string][] = []
+  try {
+    for (const [name, key] of spends) {
+      await spend(name, key)
+      taken.push([name, key])
+    }
+  }
+  catch (e) {
+    for (const [name, key] of taken) await giveBack(name, key)
+    throw e
+  }
+}
+
+// Returns one point spent by `spend` (a request that turned out to be allowed).
+export async function giveBack(name: LimiterName, key: string) {
+  await limiters[name].reward(key, 1)
 }
 
 export async function forgive(name: LimiterName, key: string) {

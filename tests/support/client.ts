@@ -54,13 +54,19 @@ export class Client {
 
 export const signedIn = (email: string, password?: string) => new Client().login(email, password)
 
-// The link in the newest outbox mail to an address, read as the admin.
+// The link in the newest outbox mail to an address that carries one to `path`, read as the admin.
+// Reset mails are sent a moment after the answer (server/utils/after-response.ts), so the outbox
+// is read again for a while.
 export async function linkFromOutbox(admin: Client, to: string, path: string) {
-  const r = await admin.get<{ to: string, text: string }[]>('/api/outbox')
-  const mail = r.body.find(m => m.to === to)
-  if (!mail) return null
-  const m = mail.text.match(new RegExp(`https?://\\S+${path}\\?token=([\\w-]+)`))
-  return m ? m[1]! : null
+  const until = Date.now() + 10_000
+  for (;;) {
+    const r = await admin.get<{ to: string, text: string }[]>('/api/outbox')
+    const link = new RegExp(`https?://\\S+${path}\\?token=([\\w-]+)`)
+    const m = r.body.find(mail => mail.to === to && link.test(mail.text))?.text.match(link)
+    if (m) return m[1]!
+    if (Date.now() > until) return null
+    await new Promise(resolve => setTimeout(resolve, 50))
+  }
 }
 
 let freshCount = 0

@@ -61,6 +61,9 @@ export function testEnv(dir: string, port: number): Record<string, string> {
     NUXT_MAIL_URL: '',
     PORT: String(port),
     HOST: '127.0.0.1',
+    // Links in mail come from here only; the tests send X-Forwarded-For as if through a local proxy.
+    NUXT_PUBLIC_URL: `http://127.0.0.1:${port}`,
+    NUXT_TRUSTED_PROXIES: 'loopback',
   }
 }
 

@@ -19,12 +19,17 @@ export default defineEventHandler(async (event) => {
     const r = tx.update(tables.passwordResets).set({ usedAt: Date.now() })
       .where(and(eq(tables.passwordResets.id, reset.id), isNull(tables.passwordResets.usedAt))).run()
     if (r.changes !== 1) return false
+    // The person's other unused links die with this one: a link still in a mailbox is a way in.
+    tx.update(tables.passwordResets).set({ usedAt: Date.now() })
+      .where(and(eq(tables.passwordResets.userId, user.id), isNull(tables.passwordResets.usedAt))).run()
     tx.update(tables.users).set({ passwordHash, sessionVersion: sql`${tables.users.sessionVersion} + 1`, updatedAt: Date.now() })
       .where(eq(tables.users.id, user.id)).run()
     return true
   })
   if (!claimed) throw createError({ statusCode: 400, message: 'This link has expired or was already used. Ask for a new one.' })
   audit({ id: user.id, email: user.email, name: user.name, roles: [], crewIds: [] }, 'password.reset', 'user', user.id)
+  // A new password lifts the account's sign-in block, and the block of the address that set it.
   await forgive('loginAccount', user.email)
+  await forgive('loginPair', `${user.email}|${clientAddress(event)}`)
   return { ok: true }
 })

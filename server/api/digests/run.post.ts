@@ -4,6 +4,6 @@ import { DigestRunBody } from '#shared/schemas/stats'
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'admin')
   const { kind, now } = await readInput(event, DigestRunBody)
-  const result = await runDigests(kind, now ? Date.parse(now) : Date.now(), { baseUrl: appUrl(event), actorId: actor.id })
+  const result = await runDigests(kind, now ? Date.parse(now) : Date.now(), { baseUrl: appUrl(), actorId: actor.id })
   return result
 })

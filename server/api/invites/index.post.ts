@@ -7,6 +7,7 @@ export default defineEventHandler(async (event) => {
   const { email, role, crewId } = await readInput(event, InviteBody)
   const problem = inviteProblem(actor, role, crewId)
   if (problem) throw createError({ statusCode: 403, message: problem })
+  const base = appUrl()
   const db = useDb()
   const crew = crewId ? db.select().from(tables.crews).where(eq(tables.crews.id, crewId)).get() : undefined
   if (crewId && !crew) throw createError({ statusCode: 404, message: 'No such crew.' })
@@ -27,7 +28,7 @@ export default defineEventHandler(async (event) => {
       `${actor.name} invites you to Glint as ${ROLE_LABELS[role].toLowerCase()}${crew ? ` in the crew ${crew.name}` : ''}.`,
       'Glint drills the recognition of aircraft and vessels a few minutes a day. The link works once, for seven days.',
     ],
-    link: `${appUrl(event)}/invite?token=${token}`,
+    link: `${base}/invite?token=${token}`,
     linkLabel: 'Accept the invitation',
   }))
   setResponseStatus(event, 201)

@@ -18,8 +18,15 @@ export default defineEventHandler(async (event) => {
   if (rule.type === 'json' && !JSON_TYPE.test(type)) {
     throw createError({ statusCode: 415, message: 'Send the request as JSON (Content-Type: application/json).' })
   }
-  // A streamed body is read by its route only after the route has authorised the request.
-  if (rule.streamed) return
+  // A streamed body is read by its route only after the route has authorised the request; a
+  // declared size past its cap is refused first, from the header alone, for anyone.
+  if (rule.streamed) {
+    if (Number.parseInt(getRequestHeader(event, 'content-length') || '', 10) > rule.limit) {
+      dropBodyAfterAnswer(event)
+      throw createError({ statusCode: 413, message: `The request is too large (limit ${describeLimit(rule.limit)}).` })
+    }
+    return
+  }
   // Only a signed-in person may make the server hold a body larger than the JSON cap.
   if (rule.limit > JSON_BODY_LIMIT) await requireActor(event)
   const body = await readCappedBody(event, rule.limit)

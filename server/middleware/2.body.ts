@@ -1,6 +1,6 @@
-// Every request body is read here: its content type checked (415), counted from the stream
-// against its route's cap (413 past it), JSON checked for NUL characters, depth and form (400),
-// then handed to the routes' readBody and readMultipartFormData.
+// Every request body is read here, except an upload's (streamed by its route after authorising):
+// its content type checked (415), counted from the stream against its route's cap (413 past it),
+// JSON checked for NUL characters, depth and form (400), then handed to the routes' readBody.
 const PAYLOAD = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
 const JSON_TYPE = /^application\/(?:[\w.+-]+\+)?json\s*(?:;|$)/i
 const MULTIPART_TYPE = /^multipart\/form-data\s*;/i
@@ -12,10 +12,20 @@ export default defineEventHandler(async (event) => {
   const rule = bodyRuleFor(event.method, event.path)
   const type = getRequestHeader(event, 'content-type') ?? ''
   if (rule.type === 'multipart' && !MULTIPART_TYPE.test(type)) {
+    if (rule.streamed) dropBodyAfterAnswer(event)
     throw createError({ statusCode: 415, message: 'Send the files as multipart/form-data.' })
   }
   if (rule.type === 'json' && !JSON_TYPE.test(type)) {
     throw createError({ statusCode: 415, message: 'Send the request as JSON (Content-Type: application/json).' })
+  }
+  // A streamed body is read by its route only after the route has authorised the request; a
+  // declared size past its cap is refused first, from the header alone, for anyone.
+  if (rule.streamed) {
+    if (Number.parseInt(getRequestHeader(event, 'content-length') || '', 10) > rule.limit) {
+      dropBodyAfterAnswer(event)
+      throw createError({ statusCode: 413, message: `The request is too large (limit ${describeLimit(rule.limit)}).` })
+    }
+    return
   }
   // Only a signed-in person may make the server hold a body larger than the JSON cap.
   if (rule.limit > JSON_BODY_LIMIT) await requireActor(event)

@@ -8,6 +8,8 @@ const MB = 1024 * KB
 export interface BodyRule {
   limit: number
   type: 'json' | 'multipart'
+  /** the route authorises first, then streams the body itself with this limit (never read here) */
+  streamed?: boolean
 }
 
 // JSON bodies are small (every string field has a maximum length in its zod schema).
@@ -18,8 +20,9 @@ const DRAIN_MAX = 4 * MB
 
 // Routes whose bodies are larger by design, sized from the limits their schemas enforce.
 const LARGE_BODIES: { method: string, path: RegExp, rule: BodyRule }[] = [
-  // Uploads of views: every file at its largest plus the multipart framing and fields.
-  { method: 'POST', path: /^\/api\/decks\/[^/]+\/views\/?$/, rule: { limit: UPLOAD_LIMITS.maxRequestBytes, type: 'multipart' } },
+  // Uploads of views: every file at its largest plus the multipart framing and fields, streamed to
+  // disk by the route once the deck's owner is authorised (server/utils/upload-stream.ts).
+  { method: 'POST', path: /^\/api\/decks\/[^/]+\/views\/?$/, rule: { limit: UPLOAD_LIMITS.maxRequestBytes, type: 'multipart', streamed: true } },
   // A scan pass: up to SCAN_MAX_SAMPLES samples of at most about 100 bytes of JSON each, plus contacts and reports.
   {
     method: 'POST', path: /^\/api\/scan\/passes\/?$/,

@@ -51,6 +51,13 @@ export function renderPool() {
   return pool
 }
 
+/** Ends the pool's threads (tests; the server's pool lives as long as the process). */
+export async function closeRenderPool() {
+  const p = pool
+  pool = undefined
+  await p?.destroy()
+}
+
 export class RenderTimeout extends Error {
   constructor() {
     super(`Processing took longer than ${RENDER_TIMEOUT_MS / 1000} s, so it was stopped. The picture may be damaged or too complex; try a smaller one.`)
@@ -62,7 +69,7 @@ export class RenderTimeout extends Error {
  * Runs one upload through the pool. The time bound starts when a worker takes the task (not
  * while it waits in the queue); on timeout the task is aborted and piscina ends its thread.
  */
-export function renderInPool(bytes: Uint8Array, opts: { backdrop: Backdrop, seed: number, onStart?: () => void, onProgress?: (p: number) => void }): Promise<RenderResult> {
+export function renderInPool(bytes: Uint8Array, opts: { backdrop: Backdrop, seed: number, timeoutMs?: number, onStart?: () => void, onProgress?: (p: number) => void }): Promise<RenderResult> {
   const { port1, port2 } = new MessageChannel()
   const controller = new AbortController()
   let timer: NodeJS.Timeout | undefined
@@ -71,7 +78,7 @@ export function renderInPool(bytes: Uint8Array, opts: { backdrop: Backdrop, seed
     if (!started) {
       started = true
       opts.onStart?.()
-      timer = setTimeout(() => controller.abort(new RenderTimeout()), RENDER_TIMEOUT_MS)
+      timer = setTimeout(() => controller.abort(new RenderTimeout()), opts.timeoutMs ?? RENDER_TIMEOUT_MS)
     }
     if (typeof m.progress === 'number') opts.onProgress?.(m.progress)
   })

@@ -6,7 +6,7 @@ import { decodeImage, encodeWebp, type ImageMime } from './codecs'
 import { ImageRejected } from './errors'
 import { type Box, cropMask, extractSilhouette, type MaskMethod, padMaskToAspect } from './mask'
 import { type Backdrop, coverageAt, RENDER_SIZES, renderCoverage, type RenderScratch } from './render'
-import { inspectUpload, type UploadLimits } from './sniff'
+import { DEFAULT_UPLOAD_LIMITS, inspectUpload, type UploadLimits } from './sniff'
 
 export interface ProcessOptions {
   limits?: UploadLimits
@@ -65,6 +65,12 @@ export async function processImage(bytes: Uint8Array, options: ProcessOptions = 
   }
   catch (error) {
     throw new ImageRejected(422, `This ${info.mime.slice(6).toUpperCase()} file could not be decoded; it may be damaged or cut off.`, { cause: error })
+  }
+  // The header's size was checked before decoding; the decoder's own size is checked before any
+  // pass over the pixels, since a file may decode to another size than its first header says.
+  const { maxSide, maxPixels } = { ...DEFAULT_UPLOAD_LIMITS, ...options.limits }
+  if (image.width !== info.width || image.height !== info.height || image.width * image.height > maxPixels || Math.max(image.width, image.height) > maxSide) {
+    throw new ImageRejected(422, `This ${info.mime.slice(6).toUpperCase()} file declares ${info.width} x ${info.height} px but decodes to ${image.width} x ${image.height} px; it may be damaged. Save it again and upload the new file.`)
   }
   progress(0.1)
 

@@ -2,6 +2,7 @@
 // and measures the Weber contrast of the result.
 import { linearChannelToSrgb, srgbChannelToLinear, weberContrast } from '../../../shared/utils/contrast'
 import { CONDITIONS, type Condition } from '../../../shared/utils/conditions'
+import { ImageRejected } from './errors'
 import type { Box, Mask } from './mask'
 import { hash32, type NoiseSpec, seededRandom, valueNoise } from './noise'
 
@@ -316,7 +317,9 @@ export function measureContrast(rgba: Uint8ClampedArray | Uint8Array, coverage: 
   // A target too thin to have core pixels at this size is measured on its half-covered pixels.
   const targetLuminance = core >= 8 ? coreSum / core : half > 0 ? halfSum / half : Number.NaN
   const backgroundLuminance = back > 0 ? backSum / back : Number.NaN
-  return { contrast: weberContrast(targetLuminance, backgroundLuminance), targetLuminance, backgroundLuminance }
+  // No target pixel or no lit background: there is no contrast to measure (NaN, refused by the renderer).
+  const contrast = Number.isFinite(targetLuminance) && backgroundLuminance > 0 ? weberContrast(targetLuminance, backgroundLuminance) : Number.NaN
+  return { contrast, targetLuminance, backgroundLuminance }
 }
 
 // The conditions of one view share their noise fields, so with a scratch each is computed once
@@ -440,6 +443,9 @@ export function renderCoverage(cov: Coverage, condition: Condition, seed: number
   }
 
   const measured = measureContrast(rgba, coverage)
+  if (!Number.isFinite(measured.contrast)) {
+    throw new ImageRejected(422, `The target is too small or too thin to show at ${longSide} px: no part of it covers a whole pixel. Crop the picture closer around the target, or use a picture where it is a solid shape.`)
+  }
   return { condition, rgba, width, height, ...measured, target }
 }
 

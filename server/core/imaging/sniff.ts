@@ -100,6 +100,38 @@ function checkWebpStructure(bytes: Uint8Array): void {
   }
 }
 
+// The Huffman-coded JPEG frames: baseline, extended sequential, progressive (ITU-T T.81, table B.1).
+const HUFFMAN_SOF: Record<number, 'sequential' | 'progressive'> = { 0xC0: 'sequential', 0xC1: 'sequential', 0xC2: 'progressive' }
+
+function jpegFrameKind(bytes: Uint8Array): 'sequential' | 'progressive' | null {
+  let at = 2
+  while (at + 4 <= bytes.length && bytes[at] === 0xFF) {
+    const marker = bytes[at + 1]!
+    if (marker === 0xFF) {
+      at++
+      continue
+    }
+    if (HUFFMAN_SOF[marker]) return HUFFMAN_SOF[marker]!
+    if (marker === 0xDA || marker === 0xD9) return null
+    at += 2 + ((bytes[at + 2]! << 8) | bytes[at + 3]!)
+  }
+  return null
+}
+
+// A Huffman-coded JPEG codes every 8x8 block of its first component: a sequential frame with at
+// least a DC difference code and an end-of-block code, a progressive one with at least a DC code
+// in its first scan, each code at least one bit long (ITU-T T.81, F.1.2 and G.1.2). A file
+// smaller than that for its declared size cannot hold the picture: it is cut off or lies.
+function checkJpegHoldsItsSize(bytes: Uint8Array, width: number, height: number): void {
+  const kind = jpegFrameKind(bytes)
+  if (!kind) return
+  const blocks = Math.ceil(width / 8) * Math.ceil(height / 8)
+  const minBytes = Math.ceil(blocks * (kind === 'sequential' ? 2 : 1) / 8)
+  if (bytes.length < minBytes) {
+    throw new ImageRejected(422, `This JPEG declares ${width} x ${height} px but is only ${Math.ceil(bytes.length / 1024)} KB, too small to hold that picture: it is cut off or damaged. Upload the whole file again.`)
+  }
+}
+
 /**
  * Checks an upload before decoding: size in bytes, real type from magic bytes, pixel size from
  * the header. Throws ImageRejected (400, 413, 415 or 422) with a message for the uploader.
@@ -135,5 +167,6 @@ export function inspectUpload(bytes: Uint8Array, limits: UploadLimits = {}): Upl
   if (width * height > maxPixels) {
     throw new ImageRejected(422, `The picture has ${Math.round(width * height / 1e5) / 10} megapixels; at most ${maxPixels / 1e6} are taken. Scale it down and try again.`)
   }
+  if (mime === 'image/jpeg') checkJpegHoldsItsSize(bytes, width, height)
   return { mime, width, height }
 }

@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
 import { encodePng } from '../../../server/core/imaging/codecs'
 import { ImageRejected } from '../../../server/core/imaging/errors'
@@ -86,6 +87,18 @@ describe('inspectUpload', () => {
     garbage.set([0xFF, 0xD8, 0xFF])
     for (let i = 3; i < garbage.length; i++) garbage[i] = (i * 37) & 0x7F
     expect(rejection(garbage).status).toBe(422)
+  })
+
+  it('refuses a 3 KB JPEG whose frame header claims 8000 x 5000 px, before decoding (422)', () => {
+    // ITU-T T.81 F.1.2: every 8x8 block of a sequential frame carries a DC code and an EOB code of
+    // at least one bit each, so 8000 x 5000 px needs at least 625,000 x 2 bits = 156,250 bytes.
+    const claim = new Uint8Array(readFileSync(new URL('../../fixtures/images/huge-claim.jpg', import.meta.url)))
+    expect(claim.length).toBeLessThan(4096)
+    const error = rejection(claim)
+    expect(error.status).toBe(422)
+    expect(error.message).toMatch(/declares 8000 x 5000 px but is only 4 KB.*cut off or damaged/)
+    // The real picture it was made from still passes.
+    expect(inspectUpload(new Uint8Array(readFileSync(new URL('../../fixtures/images/valid.jpg', import.meta.url))))).toMatchObject({ mime: 'image/jpeg', width: 480, height: 320 })
   })
 
   it('refuses a cut-off WebP with 422 (RIFF size larger than the file)', () => {

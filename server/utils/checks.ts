@@ -15,7 +15,7 @@ import type { IssuedSighting, IssuedWatch } from '../../shared/types/drill'
 import { isUntilCall, maskUrlFor, viewsWithRenderings } from './drill-plan'
 import type { ContentVariant, DeckContent, PlannedChoice } from './drill-plan'
 import type { Actor } from './gate'
-import { hasRole } from './gate'
+import { crewsLedOver, hasRole } from './gate'
 import { newCallId, newId } from './ids'
 import { loadDrillContent, watchDay } from './watch'
 
@@ -105,11 +105,13 @@ function assignedToActor(sqlite: Database, actor: Actor, deckId: string) {
     AND dc.crew_id IN (SELECT value FROM json_each(?)) LIMIT 1`).get(deckId, JSON.stringify(actor.crewIds))
 }
 
-// Does the actor lead a crew the person is in?
-function leadsPerson(sqlite: Database, actor: Actor, userId: string) {
-  if (!hasRole(actor, 'lead')) return false
-  return !!sqlite.prepare(`SELECT 1 FROM memberships mine JOIN memberships theirs ON theirs.crew_id = mine.crew_id
-    WHERE mine.user_id = ? AND theirs.user_id = ? LIMIT 1`).get(actor.id, userId)
+// A lead's reach over an attempt: the check's deck is assigned to a crew the actor leads that the
+// trainee is in (crewsLedOver in gate.ts); an attempt of another crew is out of reach.
+function leadsAttempt(sqlite: Database, actor: Actor, a: AttemptRow) {
+  const led = crewsLedOver(sqlite, actor, a.userId)
+  if (!led.length) return false
+  return !!sqlite.prepare(`SELECT 1 FROM checks c JOIN deck_crews dc ON dc.deck_id = c.deck_id
+    WHERE c.id = ? AND dc.crew_id IN (SELECT value FROM json_each(?)) LIMIT 1`).get(a.checkId, JSON.stringify(led))
 }
 
 // ---------------------------------------------------------------- definitions
@@ -440,11 +442,11 @@ export function finishCheckAttempt(sqlite: Database, actor: Actor, attemptId: st
 
 // ---------------------------------------------------------------- results, reset, sign-off
 
-/** Who may read a result: the trainee once it is finished, a lead of their crew, the check's instructor, an admin. */
+/** Who may read a result: the trainee once it is finished, a lead of the crew it belongs to, the check's instructor, an admin. */
 export function requireResultAccess(sqlite: Database, actor: Actor, attemptId: string) {
   const a = attemptRow(sqlite, attemptId)
   if (!a) throw noAttempt()
-  if (hasRole(actor, 'admin') || leadsPerson(sqlite, actor, a.userId)) return a
+  if (hasRole(actor, 'admin') || leadsAttempt(sqlite, actor, a)) return a
   const c = checkRow(sqlite, a.checkId)!
   if (hasRole(actor, 'instructor') && ownsCheck(actor, c)) return a
   if (a.userId === actor.id) {
@@ -506,11 +508,11 @@ export function checkResult(sqlite: Database, attemptId: string): CheckResult {
   }
 }
 
-// A lead of a crew the trainee is in; never for one's own attempt.
+// A lead of a crew the trainee is in and the check is assigned to; never for one's own attempt.
 function requireLeadOf(sqlite: Database, actor: Actor, attemptId: string): AttemptRow {
   const a = attemptRow(sqlite, attemptId)
   if (!a) throw noAttempt()
-  if (!leadsPerson(sqlite, actor, a.userId)) throw fail(403, 'Only a lead of the trainee\'s crew can do this.')
+  if (!leadsAttempt(sqlite, actor, a)) throw fail(403, 'Only a lead of the crew this check belongs to can do this; ask that crew\'s lead.')
   if (a.userId === actor.id) throw fail(403, 'Another lead must do this for your own check.')
   return a
 }

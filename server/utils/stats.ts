@@ -16,7 +16,7 @@ import type {
   BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PersonReport, TrendFigures,
 } from '../../shared/types/stats'
 import type { Actor } from './gate'
-import { hasRole, requireActor } from './gate'
+import { crewsLedOver, hasRole, requireActor } from './gate'
 
 export interface StatsFilters {
   deckId?: string
@@ -64,8 +64,6 @@ function statementsFor(sqlite: Database) {
     ownsDeckInCrew: p(`SELECT 1 FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id WHERE dc.crew_id = ? AND d.owner_id = ? LIMIT 1`).pluck(),
     ownsDeckOfPerson: p(`SELECT 1 FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id JOIN decks d ON d.id = dc.deck_id
       WHERE m.user_id = ? AND d.owner_id = ? LIMIT 1`).pluck(),
-    leadsPerson: p(`SELECT 1 FROM memberships mine JOIN memberships theirs ON theirs.crew_id = mine.crew_id
-      WHERE mine.user_id = ? AND theirs.user_id = ? LIMIT 1`).pluck(),
   }
 }
 
@@ -141,19 +139,25 @@ export async function requireCrewStatsAccess(event: H3Event, sqlite: Database, c
   return actor
 }
 
-/** The person themself, a lead of one of their crews, an instructor with a deck assigned to one of their crews, or an admin. */
-export async function requirePersonAccess(event: H3Event, sqlite: Database, userId: string): Promise<Actor> {
+/** Whose person page the actor sees, and of which crews: null for all of the person's crews. */
+export interface PersonAccess { actor: Actor, crewIds: string[] | null }
+
+/**
+ * The person themself, an instructor with a deck assigned to one of their crews, or an admin see
+ * all of the person's crews; a lead sees only the crews the lead leads (crewsLedOver in gate.ts).
+ */
+export async function requirePersonAccess(event: H3Event, sqlite: Database, userId: string): Promise<PersonAccess> {
   const actor = await requireActor(event)
-  if (actor.id === userId) return actor
+  if (actor.id === userId) return { actor, crewIds: null }
   const s = stmts(sqlite)
   if (hasRole(actor, 'admin')) {
     if (!s.user.get(userId)) throw createError({ statusCode: 404, message: 'No such person.' })
-    return actor
+    return { actor, crewIds: null }
   }
-  const asLead = hasRole(actor, 'lead') && !!s.leadsPerson.get(actor.id, userId)
-  const asInstructor = hasRole(actor, 'instructor') && !!s.ownsDeckOfPerson.get(userId, actor.id)
-  if (!asLead && !asInstructor) throw createError({ statusCode: 403, message: 'You can see the progress of people in your own crews only.' })
-  return actor
+  if (hasRole(actor, 'instructor') && s.ownsDeckOfPerson.get(userId, actor.id)) return { actor, crewIds: null }
+  const led = crewsLedOver(sqlite, actor, userId)
+  if (!led.length) throw createError({ statusCode: 403, message: 'You can see the progress of people in your own crews only.' })
+  return { actor, crewIds: led }
 }
 
 /** The deck's owner (an instructor) or an admin. */
@@ -531,11 +535,14 @@ function breakdown(rows: readonly BreakdownRow[], label: (key: string) => string
 }
 
 /** Everything the person page shows, for `days` days up to nowMs on the decks of the person's crews. */
-export function personReportOf(sqlite: Database, userId: string, viewerId: string, filters: { deckId?: string, days: number }, nowMs: number): PersonReport {
+/** The person page; crewIds (see requirePersonAccess) limits it to those crews and their decks. */
+export function personReportOf(
+  sqlite: Database, userId: string, viewerId: string, filters: { deckId?: string, days: number }, nowMs: number, crewIds: readonly string[] | null = null,
+): PersonReport {
   const s = stmts(sqlite)
   const user = s.user.get(userId) as { id: string, name: string, remindersOptOut: number } | undefined
   if (!user) throw createError({ statusCode: 404, message: 'No such person.' })
-  const crews = s.userCrews.all(userId) as CrewRow[]
+  const crews = (s.userCrews.all(userId) as CrewRow[]).filter(c => !crewIds || crewIds.includes(c.id))
   // Decks of all the person's crews, each read against the standard of the first crew it is assigned to.
   const deckCrew = new Map<string, CrewRow>()
   const allDecks: DeckRow[] = []

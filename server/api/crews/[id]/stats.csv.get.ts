@@ -3,6 +3,8 @@ import { IdParam } from '#shared/schemas/params'
 import { StatsQuery } from '#shared/schemas/stats'
 
 // The crew table as CSV (RFC 4180 quoting by csv-stringify), one header row, numbers unformatted.
+// A text cell that a spreadsheet would read as a formula (=, +, -, @, tab, CR first) gets a leading
+// quote (OWASP "CSV Injection"); negative numbers stay numbers.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const sqlite = useSqlite()
@@ -15,6 +17,7 @@ export default defineEventHandler(async (event) => {
   setResponseHeader(event, 'content-disposition', `attachment; filename="${file}"`)
   return stringify(crewStatsRecords(stats), {
     header: true,
+    escape_formulas: true,
     columns: [...CREW_CSV_COLUMNS],
     cast: { boolean: v => (v ? 'true' : 'false'), number: v => String(v) },
   })

@@ -100,6 +100,7 @@ export const MATRIX: Record<string, Entry> = {
   'PUT /api/scan/drills/:drill/crews': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 'pass' },
   'GET /api/scan/passes': signedIn,
   'POST /api/scan/passes': signedIn,
+  'POST /api/scan/passes/start': signedIn,
   // Checks: an unknown check or attempt is a 404 to every role the route is for.
   'GET /api/checks': signedIn,
   'POST /api/checks': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },

@@ -1,4 +1,4 @@
-import { normalizeBearing, sectorWidth } from '#shared/utils/scan-pattern'
+import { DEFAULT_STOP_TOLERANCE_DEG, normalizeBearing, sectorWidth } from '#shared/utils/scan-pattern'
 import type { ScanSample } from '#shared/utils/scan-pattern'
 import { placeScanContacts, scanFieldDeg } from '#shared/utils/scan-scene'
 import { SCAN_SAMPLES_A_SECOND, scanPositionAngleLimits, scanSectorOffset } from '#shared/utils/scan-checks'
@@ -82,8 +82,10 @@ export function useScanPass() {
       const e = 1 - (1 - f) ** 3
       view.bearing = anim.from.bearing + (anim.to.bearing - anim.from.bearing) * e
       view.positionAngle = anim.from.positionAngle + (anim.to.positionAngle - anim.from.positionAngle) * e
-      // The first frame of a move ends the stop before it.
-      if (!anim.sampled) {
+      // The first frame that leaves the stop's tolerance ends the stop before it (a frame that has
+      // barely moved would count as part of the stop and shift its place).
+      const moved = Math.max(Math.abs(view.bearing - anim.from.bearing), Math.abs(view.positionAngle - anim.from.positionAngle))
+      if (!anim.sampled && (moved > DEFAULT_STOP_TOLERANCE_DEG || f >= 1)) {
         anim.sampled = true
         sample()
       }

@@ -7,8 +7,13 @@ import type { Client } from './client'
 
 export interface Sample { tMs: number, bearing: number, positionAngle: number }
 export interface Report {
-  contactId: string | null, tapAtMs: number, reportedAtMs: number, category: 'aircraft' | 'vessel',
-  bearing: number, positionAngle: number, closing: 'closing' | 'opening' | 'unknown'
+  contactId: string | null
+  tapAtMs: number
+  reportedAtMs: number
+  category: 'aircraft' | 'vessel'
+  bearing: number
+  positionAngle: number
+  closing: 'closing' | 'opening' | 'unknown'
 }
 export interface Started { id: string, seed: number, settings: ScanDrillConfig, issuedAt: number, at: number }
 

@@ -1,6 +1,7 @@
-import { normalizeBearing } from '#shared/utils/scan-pattern'
+import { DEFAULT_STOP_TOLERANCE_DEG, normalizeBearing, sectorWidth } from '#shared/utils/scan-pattern'
 import type { ScanSample } from '#shared/utils/scan-pattern'
 import { placeScanContacts, scanFieldDeg } from '#shared/utils/scan-scene'
+import { SCAN_SAMPLES_A_SECOND, scanPositionAngleLimits, scanSectorOffset } from '#shared/utils/scan-checks'
 import type { ScanContact, ScanDrillConfig, ScanPassSummary, ScanReport } from '#shared/utils/scan-scene'
 import type { ScanDrillSettingsT } from '#shared/schemas/scan'
 
@@ -8,6 +9,21 @@ export const SCAN_STEP_ANIMATION_MS = 150
 // Stops are told apart by the samples at each step's start, first frame and end; the periodic
 // sample only marks time (a pass body must stay small).
 const SAMPLE_EVERY_MS = 500
+// At most one sample in this long (the server takes at most 25 a second of the pass): a newer
+// event sample replaces the one before, a periodic one waits.
+const SAMPLE_SPACING_MS = 1000 / SCAN_SAMPLES_A_SECOND
+// A step waits this long after the one before: the field never turns faster than a person can
+// turn binoculars (a 20° step at most every 125 ms; the server refuses over 360° a second).
+const MIN_STEP_INTERVAL_MS = 125
+
+/** A started pass, as POST /api/scan/passes/start answers. */
+export interface ScanPassStartInfo {
+  id: string
+  drillId: string | null
+  seed: number
+  settings: ScanDrillSettingsT
+  issuedAt: number
+}
 
 export interface ScanView { bearing: number, positionAngle: number }
 
@@ -22,7 +38,7 @@ export interface ScanPassResult {
 // One running pass: the clock, the field's place (stepped, animated), its samples and the reports.
 export function useScanPass() {
   const config = shallowRef<ScanDrillConfig | null>(null)
-  const drillId = ref<string | null>(null)
+  const startId = ref<string | null>(null)
   const seed = ref(0)
   const contacts = shallowRef<ScanContact[]>([])
   const state = ref<'idle' | 'running' | 'sending' | 'done'>('idle')
@@ -38,13 +54,23 @@ export function useScanPass() {
   let frame = 0
   let timer: ReturnType<typeof setInterval> | undefined
   let anim: { from: ScanView, to: ScanView, at: number, sampled: boolean } | null = null
+  let lastStepAt = -Infinity
 
   const fieldDeg = computed(() => config.value ? scanFieldDeg(config.value.field) : 7)
 
   const elapsed = () => performance.now() - startedAt
-  function sample() {
+  const lengthMs = () => (config.value?.lengthS ?? 0) * 1000
+  // An event sample (a step, a stop, the end) replaces one taken less than SAMPLE_SPACING_MS
+  // before; a periodic one is skipped then. No sample is taken past the pass's length.
+  function sample(periodic = false) {
     const round = (x: number) => Math.round(x * 100) / 100
-    samples.push({ tMs: Math.round(elapsed()), bearing: normalizeBearing(round(view.bearing)), positionAngle: round(view.positionAngle) })
+    const tMs = Math.min(Math.round(elapsed()), lengthMs())
+    const last = samples[samples.length - 1]
+    if (last && tMs - last.tMs < SAMPLE_SPACING_MS) {
+      if (periodic) return
+      samples.pop()
+    }
+    samples.push({ tMs, bearing: normalizeBearing(round(view.bearing)), positionAngle: round(view.positionAngle) })
   }
 
   function tick() {
@@ -56,8 +82,10 @@ export function useScanPass() {
       const e = 1 - (1 - f) ** 3
       view.bearing = anim.from.bearing + (anim.to.bearing - anim.from.bearing) * e
       view.positionAngle = anim.from.positionAngle + (anim.to.positionAngle - anim.from.positionAngle) * e
-      // The first frame of a move ends the stop before it.
-      if (!anim.sampled) {
+      // The first frame that leaves the stop's tolerance ends the stop before it (a frame that has
+      // barely moved would count as part of the stop and shift its place).
+      const moved = Math.max(Math.abs(view.bearing - anim.from.bearing), Math.abs(view.positionAngle - anim.from.positionAngle))
+      if (!anim.sampled && (moved > DEFAULT_STOP_TOLERANCE_DEG || f >= 1)) {
         anim.sampled = true
         sample()
       }
@@ -76,11 +104,12 @@ export function useScanPass() {
     frame = requestAnimationFrame(tick)
   }
 
-  function start(settings: ScanDrillSettingsT, options: { drillId: string | null, seed: number }) {
+  function start(started: ScanPassStartInfo) {
+    const settings = started.settings
     config.value = settings
-    drillId.value = options.drillId
-    seed.value = options.seed
-    contacts.value = placeScanContacts(settings, options.seed)
+    startId.value = started.id
+    seed.value = started.seed
+    contacts.value = placeScanContacts(settings, started.seed)
     reports.value = []
     result.value = null
     error.value = null
@@ -94,20 +123,30 @@ export function useScanPass() {
     startedAt = performance.now()
     nowMs.value = 0
     lastStopMs.value = 0
+    lastStepAt = -Infinity
     state.value = 'running'
     sample()
-    timer = setInterval(sample, SAMPLE_EVERY_MS)
+    timer = setInterval(() => {
+      if (elapsed() >= lengthMs()) void end()
+      else sample(true)
+    }, SAMPLE_EVERY_MS)
     frame = requestAnimationFrame(tick)
   }
 
   function step(dx: number, dy: number) {
     if (state.value !== 'running' || !config.value) return
-    const s = config.value.stepDeg
-    const fd = fieldDeg.value
-    const top = config.value.mode === 'sky' ? 90 - fd / 2 : Math.max(fd, 10)
+    const at = performance.now()
+    if (at - lastStepAt < MIN_STEP_INTERVAL_MS) return
+    lastStepAt = at
+    const c = config.value
+    const s = c.stepDeg
+    const { bottom, top } = scanPositionAngleLimits(c)
     sample()
-    target.bearing += dx * s
-    target.positionAngle = Math.min(top, Math.max(-fd / 2, target.positionAngle + dy * s))
+    // The field's centre stays on the sector (the server refuses a field wholly outside it).
+    const width = sectorWidth(c.startBearing, c.endBearing)
+    const offset = scanSectorOffset(c, target.bearing + dx * s)
+    target.bearing = width < 360 ? c.startBearing + Math.min(width, Math.max(0, offset)) : target.bearing + dx * s
+    target.positionAngle = Math.min(top, Math.max(bottom, target.positionAngle + dy * s))
     anim = { from: { bearing: view.bearing, positionAngle: view.positionAngle }, to: { ...target }, at: performance.now(), sampled: false }
     // Keep the animation on the short way round through north.
     if (anim.to.bearing - anim.from.bearing > 180) anim.from.bearing += 360
@@ -115,6 +154,7 @@ export function useScanPass() {
   }
 
   function addReport(report: ScanReport) {
+    if (state.value !== 'running' || report.reportedAtMs > lengthMs()) return
     reports.value = [...reports.value, report]
   }
 
@@ -132,7 +172,7 @@ export function useScanPass() {
     try {
       result.value = await $fetch<ScanPassResult>('/api/scan/passes', {
         method: 'POST',
-        body: { drillId: drillId.value, seed: seed.value, settings: config.value, samples, contacts: contacts.value, reports: reports.value },
+        body: { startId: startId.value, samples, reports: reports.value },
       })
       state.value = 'done'
     }

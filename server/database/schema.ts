@@ -310,6 +310,19 @@ export const scanDrillCrews = sqliteTable('scan_drill_crews', {
   crewId: text('crew_id').notNull().references(() => crews.id, { onDelete: 'cascade' }),
 }, t => [primaryKey({ columns: [t.drillId, t.crewId] })])
 
+// A pass the server has started: the seed it drew (or, for the practice sector only, the seed the
+// trainee asked for), the settings it runs with, when it was issued and when its pass was sent.
+export const scanStarts = sqliteTable('scan_starts', {
+  id: text('id').primaryKey(),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  drillId: text('drill_id').references(() => scanDrills.id, { onDelete: 'set null' }),
+  seed: integer('seed').notNull(),
+  seedChosen: integer('seed_chosen', { mode: 'boolean' }).notNull().default(false),
+  settings: text('settings', { mode: 'json' }).notNull().$type<Record<string, unknown>>(),
+  issuedAt: integer('issued_at').notNull(),
+  usedAt: integer('used_at'),
+}, t => [index('scan_starts_user_idx').on(t.userId, t.issuedAt)])
+
 export const scanPasses = sqliteTable('scan_passes', {
   id: text('id').primaryKey(),
   userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),

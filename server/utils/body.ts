@@ -1,6 +1,6 @@
 import type { H3Event } from 'h3'
 import { UPLOAD_LIMITS } from '#shared/schemas/decks'
-import { SCAN_MAX_CONTACTS, SCAN_MAX_REPORTS, SCAN_MAX_SAMPLES } from '#shared/schemas/scan'
+import { SCAN_MAX_REPORTS, SCAN_MAX_SAMPLES } from '#shared/schemas/scan'
 
 const KB = 1024
 const MB = 1024 * KB
@@ -23,10 +23,10 @@ const LARGE_BODIES: { method: string, path: RegExp, rule: BodyRule }[] = [
   // Uploads of views: every file at its largest plus the multipart framing and fields, streamed to
   // disk by the route once the deck's owner is authorised (server/utils/upload-stream.ts).
   { method: 'POST', path: /^\/api\/decks\/[^/]+\/views\/?$/, rule: { limit: UPLOAD_LIMITS.maxRequestBytes, type: 'multipart', streamed: true } },
-  // A scan pass: up to SCAN_MAX_SAMPLES samples of at most about 100 bytes of JSON each, plus contacts and reports.
+  // A scan pass: up to SCAN_MAX_SAMPLES samples of at most about 100 bytes of JSON each, plus the reports.
   {
     method: 'POST', path: /^\/api\/scan\/passes\/?$/,
-    rule: { limit: SCAN_MAX_SAMPLES * 100 + (SCAN_MAX_CONTACTS + SCAN_MAX_REPORTS) * 500 + JSON_BODY_LIMIT, type: 'json' },
+    rule: { limit: SCAN_MAX_SAMPLES * 100 + SCAN_MAX_REPORTS * 500 + JSON_BODY_LIMIT, type: 'json' },
   },
 ]
 

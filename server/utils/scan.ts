@@ -1,7 +1,10 @@
-import { and, desc, eq, inArray } from 'drizzle-orm'
-import type { ScanDrillSettingsT, ScanPassBodyT } from '#shared/schemas/scan'
+import { randomInt } from 'node:crypto'
+import { and, desc, eq, inArray, isNull } from 'drizzle-orm'
+import { PRACTICE_SCAN_SETTINGS } from '#shared/schemas/scan'
+import type { ScanDrillSettingsT, ScanPassBodyT, ScanPassStartBodyT } from '#shared/schemas/scan'
 import { median } from '#shared/utils/statistics'
-import { scoreScanPass } from '#shared/utils/scan-scene'
+import { placeScanContacts, scoreScanPass } from '#shared/utils/scan-scene'
+import { scanPassProblem } from '#shared/utils/scan-checks'
 import type { ScanPassSummary } from '#shared/utils/scan-scene'
 import type { Actor } from './gate'
 
@@ -109,14 +112,51 @@ export function setScanDrillCrews(actor: Actor, id: string, crewIds: string[]): 
 const MIN_SAMPLE_SPACING_MS = 10
 
 function thinSamples(samples: ScanPassBodyT['samples']) {
-  const sorted = [...samples].sort((a, b) => a.tMs - b.tMs)
-  const kept: typeof sorted = []
-  sorted.forEach((s, i) => {
+  const kept: ScanPassBodyT['samples'] = []
+  samples.forEach((s, i) => {
     const last = kept[kept.length - 1]
-    if (!last || s.tMs - last.tMs >= MIN_SAMPLE_SPACING_MS || i === sorted.length - 1) kept.push(s)
+    if (!last || s.tMs - last.tMs >= MIN_SAMPLE_SPACING_MS || i === samples.length - 1) kept.push(s)
   })
   return kept
 }
+
+// The phone starts its clock when the start's answer arrives, so the server's clock runs ahead of
+// it; this much slack covers timer rounding.
+const CLOCK_SLACK_MS = 1000
+// A started pass may be sent up to this long after its length has run (a slow network, a retry).
+const SEND_WINDOW_MS = 10 * 60_000
+
+export interface ScanPassStart {
+  id: string
+  drillId: string | null
+  seed: number
+  settings: ScanDrillSettingsT
+  issuedAt: number
+}
+
+/**
+ * Starts a pass: the settings it runs with (an assigned drill's, or the practice sector's, never
+ * longer than their own length) and its seed, drawn here unless the practice sector is replayed
+ * with a chosen one. The start is stored; its pass may be sent once.
+ */
+export function startScanPass(actor: Actor, body: ScanPassStartBodyT): ScanPassStart {
+  let settings: ScanDrillSettingsT = PRACTICE_SCAN_SETTINGS
+  if (body.drillId) {
+    const drill = visibleScanDrill(actor, body.drillId)
+    if (!drill) throw noDrill()
+    if (body.seed !== undefined) {
+      throw createError({ statusCode: 400, message: 'seed: an assigned drill takes the seed the server draws; choose a seed for the practice sector only.' })
+    }
+    settings = drill.settings
+  }
+  settings = { ...settings, lengthS: Math.min(settings.lengthS, body.lengthS ?? settings.lengthS) }
+  const seed = body.seed ?? randomInt(0, 2 ** 32)
+  const start = { id: newId(), drillId: body.drillId, seed, settings, issuedAt: Date.now() }
+  useDb().insert(tables.scanStarts).values({ ...start, userId: actor.id, seedChosen: body.seed !== undefined }).run()
+  return start
+}
+
+const badPass = (message: string) => createError({ statusCode: 400, message })
 
 export interface StoredScanPass {
   id: string
@@ -126,45 +166,59 @@ export interface StoredScanPass {
   coverage: number
   contactsFound: number
   contactsShown: number
-  score: ScanPassSummary & { settings: ScanDrillSettingsT, drillTitle: string | null }
+  score: ScanPassSummary & { settings: ScanDrillSettingsT, drillTitle: string | null, seed: number, seedChosen: boolean }
 }
 
 /**
- * Scores a pass on the server (any score the client sent is ignored) and stores it. A pass of an
- * assigned drill is scored with the drill's saved settings; only its length may be shorter.
+ * Scores a pass on the server and stores it: the scene is rebuilt from the start's seed and
+ * settings, the samples and reports must be what the drill can produce (scanPassProblem), and
+ * the pass cannot claim more time than has passed since its start. Any score or scene the
+ * client sent is never read. A start's pass is stored once.
  */
 export function recordScanPass(actor: Actor, body: ScanPassBodyT): StoredScanPass {
-  let settings = body.settings
-  let drillTitle: string | null = null
-  if (body.drillId) {
-    const drill = visibleScanDrill(actor, body.drillId)
-    if (!drill) throw noDrill()
-    settings = { ...drill.settings, lengthS: Math.min(drill.settings.lengthS, body.settings.lengthS) }
-    drillTitle = drill.title
+  const db = useDb()
+  const start = db.select().from(tables.scanStarts)
+    .where(and(eq(tables.scanStarts.id, body.startId), eq(tables.scanStarts.userId, actor.id))).get()
+  if (!start) throw badPass('startId: this pass was never started for you; start a pass and send its own samples.')
+  if (start.usedAt !== null) {
+    throw createError({ statusCode: 409, message: 'This pass was already sent and scored; start a new pass.' })
   }
-  // A pass may run a little over its length (the last report, the network); not minutes.
-  const limitMs = settings.lengthS * 1000 + 30_000
-  const late = body.samples.some(s => s.tMs > limitMs) || body.reports.some(r => r.reportedAtMs > limitMs)
-    || body.contacts.some(c => c.shownAtMs > limitMs)
-  if (late) throw createError({ statusCode: 400, message: `This pass runs past the drill's length of ${settings.lengthS} s.` })
-  const ids = new Set(body.contacts.map(c => c.id))
-  if (ids.size !== body.contacts.length) throw createError({ statusCode: 400, message: 'contacts: each contact needs its own id.' })
+  const settings = start.settings as ScanDrillSettingsT
+  const now = Date.now()
+  const since = now - start.issuedAt
+  if (since > settings.lengthS * 1000 + SEND_WINDOW_MS) {
+    throw badPass(`This pass was started ${Math.round(since / 60_000)} minutes ago, too long ago to be scored; start a new pass.`)
+  }
+  const contacts = placeScanContacts(settings, start.seed)
+  const problem = scanPassProblem({ config: settings, contacts, samples: body.samples, reports: body.reports })
+  if (problem) throw badPass(problem)
+  const lastMs = body.samples[body.samples.length - 1]!.tMs
+  if (lastMs > since + CLOCK_SLACK_MS) {
+    throw badPass(`samples: the pass runs ${(lastMs / 1000).toFixed(1)} s, but it was started only ${(since / 1000).toFixed(1)} s ago.`)
+  }
 
-  const summary = scoreScanPass({ config: settings, samples: thinSamples(body.samples), contacts: body.contacts, reports: body.reports })
+  const summary = scoreScanPass({ config: settings, samples: thinSamples(body.samples), contacts, reports: body.reports })
+  let drillTitle: string | null = null
+  if (start.drillId) drillTitle = db.select({ title: tables.scanDrills.title }).from(tables.scanDrills).where(eq(tables.scanDrills.id, start.drillId)).get()?.title ?? null
   const id = newId()
-  const score = { ...summary, settings, drillTitle }
-  const createdAt = Date.now()
-  useDb().insert(tables.scanPasses).values({
-    id,
-    userId: actor.id,
-    drillId: body.drillId ?? null,
-    score,
-    coverage: summary.coverage,
-    contactsFound: summary.contactsFound,
-    contactsShown: summary.contactsShown,
-    createdAt,
-  }).run()
-  return { id, userId: actor.id, drillId: body.drillId ?? null, createdAt, coverage: summary.coverage, contactsFound: summary.contactsFound, contactsShown: summary.contactsShown, score: score as StoredScanPass['score'] }
+  const score = { ...summary, settings, drillTitle, seed: start.seed, seedChosen: start.seedChosen }
+  db.transaction((tx) => {
+    // The start is spent in the same transaction, so two sends of one pass store it once.
+    const spent = tx.update(tables.scanStarts).set({ usedAt: now })
+      .where(and(eq(tables.scanStarts.id, start.id), isNull(tables.scanStarts.usedAt))).run()
+    if (spent.changes !== 1) throw createError({ statusCode: 409, message: 'This pass was already sent and scored; start a new pass.' })
+    tx.insert(tables.scanPasses).values({
+      id,
+      userId: actor.id,
+      drillId: start.drillId,
+      score,
+      coverage: summary.coverage,
+      contactsFound: summary.contactsFound,
+      contactsShown: summary.contactsShown,
+      createdAt: now,
+    }).run()
+  })
+  return { id, userId: actor.id, drillId: start.drillId, createdAt: now, coverage: summary.coverage, contactsFound: summary.contactsFound, contactsShown: summary.contactsShown, score }
 }
 
 export function listScanPasses(userId: string, limit = 50): StoredScanPass[] {

@@ -1,13 +1,14 @@
 import { z } from 'zod'
 import { CONDITIONS } from '../utils/conditions'
+import { maxScanSamples } from '../utils/scan-checks'
 import { Id } from './auth'
 
 export const SCAN_CATEGORIES = ['aircraft', 'vessel'] as const
 export const SCAN_CLOSING = ['closing', 'opening', 'unknown'] as const
 export const SCAN_LENGTH_MIN_S = 30
 export const SCAN_LENGTH_MAX_S = 600
-export const SCAN_MAX_SAMPLES = 20_000
-export const SCAN_MAX_CONTACTS = 200
+// The most samples a pass of the longest drill may hold (maxScanSamples: 25 a second).
+export const SCAN_MAX_SAMPLES = maxScanSamples(SCAN_LENGTH_MAX_S)
 export const SCAN_MAX_REPORTS = 200
 
 const Bearing = z.number({ message: 'Enter a bearing in degrees.' })
@@ -55,18 +56,6 @@ const Ms = z.number().min(0, 'Times count from the start of the pass.').max(SCAN
 
 export const ScanSampleInput = z.object({ tMs: Ms, bearing: Bearing, positionAngle: PositionAngle }).strict()
 
-export const ScanContactInput = z.object({
-  id: z.string().min(1).max(40),
-  bearing: Bearing,
-  positionAngle: PositionAngle,
-  shownAtMs: Ms,
-  goneAtMs: Ms,
-  category: z.enum(SCAN_CATEGORIES),
-  rangeM: z.number().positive().max(200_000),
-  sizeM: z.number().positive().max(500),
-  condition: z.enum(CONDITIONS),
-}).strict().refine(c => c.goneAtMs > c.shownAtMs, 'A contact must go after it shows.')
-
 export const ScanReportInput = z.object({
   contactId: z.string().min(1).max(40).nullable(),
   tapAtMs: Ms,
@@ -78,14 +67,27 @@ export const ScanReportInput = z.object({
   closing: z.enum(SCAN_CLOSING, { message: 'Choose closing, opening or unknown.' }),
 }).strict().refine(r => r.reportedAtMs >= r.tapAtMs, 'A report is sent after its tap.')
 
+// Starting a pass: the server draws the seed (a chosen seed only for the practice sector, to
+// replay a scene) and keeps the settings the pass runs with.
+export const ScanPassStartBody = z.object({
+  drillId: z.string({ message: 'Choose a drill, or null for the practice sector.' })
+    .min(8, 'Not a valid id.').max(40, 'Not a valid id.').regex(/^[\w-]+$/, 'Not a valid id.').nullable(),
+  lengthS: z.number({ message: 'Enter the pass length in seconds.' }).int('Use whole seconds.')
+    .min(SCAN_LENGTH_MIN_S, `Use a length of ${SCAN_LENGTH_MIN_S} to ${SCAN_LENGTH_MAX_S} s.`)
+    .max(SCAN_LENGTH_MAX_S, `Use a length of ${SCAN_LENGTH_MIN_S} to ${SCAN_LENGTH_MAX_S} s.`).optional(),
+  seed: z.number({ message: 'A seed is a whole number.' }).int('A seed is a whole number.')
+    .min(0, 'A seed runs from 0 to 4294967295.').max(2 ** 32 - 1, 'A seed runs from 0 to 4294967295.').optional(),
+}).strict()
+export type ScanPassStartBodyT = z.infer<typeof ScanPassStartBody>
+
+// A pass as the phone sends it: the start it belongs to, the field's samples and the reports.
+// The scene, settings and score are the server's; anything else sent along is dropped unread.
 export const ScanPassBody = z.object({
-  drillId: Id.nullable().optional(),
-  seed: z.number().int().min(0).max(2 ** 32 - 1).optional(),
-  settings: ScanDrillSettings,
+  startId: z.string({ message: 'Start the pass first: the server issues each pass its scene and seed.' })
+    .min(8, 'Not a valid pass start.').max(40, 'Not a valid pass start.').regex(/^[\w-]+$/, 'Not a valid pass start.'),
   samples: z.array(ScanSampleInput).min(2, 'A pass needs at least two samples of the field.')
     .max(SCAN_MAX_SAMPLES, `A pass holds at most ${SCAN_MAX_SAMPLES} samples.`),
-  contacts: z.array(ScanContactInput).max(SCAN_MAX_CONTACTS),
-  reports: z.array(ScanReportInput).max(SCAN_MAX_REPORTS),
+  reports: z.array(ScanReportInput).max(SCAN_MAX_REPORTS, `A pass holds at most ${SCAN_MAX_REPORTS} reports.`),
 })
 export type ScanPassBodyT = z.infer<typeof ScanPassBody>
 

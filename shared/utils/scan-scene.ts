@@ -212,7 +212,7 @@ export interface ScanContactResult {
 
 export interface ScanReportResult {
   contactId: string | null
-  // the report names a contact that showed, was in the field at the tap, and was not reported before
+  // the report names a contact that showed, held in a pause's field at the tap, and not reported before
   matched: boolean
   tapAtMs: number
   detectMs: number | null
@@ -253,22 +253,9 @@ export interface ScanPassInput {
 // A tap may land just after the contact goes, and the field's edge is soft to the eye.
 const TAP_GRACE_MS = 500
 const FIELD_EDGE_GRACE_DEG = 0.5
-
-/** Where the field's centre was at a time: the last sample at or before it. */
-export function fieldCentreAt(samples: readonly ScanSample[], tMs: number): ScanSample | null {
-  let lo = 0
-  let hi = samples.length - 1
-  let found: ScanSample | null = null
-  while (lo <= hi) {
-    const mid = (lo + hi) >> 1
-    if (samples[mid]!.tMs <= tMs) {
-      found = samples[mid]!
-      lo = mid + 1
-    }
-    else hi = mid - 1
-  }
-  return found
-}
+// A tap sooner than this after a contact shows is a guess, not a sighting: responses under
+// 100 ms are anticipations (Whelan 2008, "Effective analysis of reaction time data").
+export const SCAN_MIN_DETECT_MS = 100
 
 const medianOrNull = (values: number[]) => values.length ? median(values) : null
 
@@ -285,12 +272,14 @@ export function scoreScanPass(input: ScanPassInput): ScanPassSummary {
   const byId = new Map(shown.map(c => [c.id, c]))
   const claimed = new Set<string>()
 
+  // A contact counts only when the tap falls inside a pause whose field held the contact while it showed.
+  const pauseAt = (tMs: number) => search.pauses.find(p => p.startMs <= tMs && tMs <= p.endMs)
   const reports: ScanReportResult[] = [...input.reports].sort((a, b) => a.tapAtMs - b.tapAtMs).map((r) => {
     const contact = r.contactId ? byId.get(r.contactId) : undefined
-    const centre = fieldCentreAt(samples, r.tapAtMs)
-    const matched = !!contact && !!centre && !claimed.has(contact.id)
-      && r.tapAtMs >= contact.shownAtMs && r.tapAtMs <= contact.goneAtMs + TAP_GRACE_MS
-      && isInField({ bearing: centre.bearing, positionAngle: centre.positionAngle, fieldDeg: settings.fieldDeg + 2 * FIELD_EDGE_GRACE_DEG }, contact)
+    const pause = pauseAt(r.tapAtMs)
+    const matched = !!contact && !!pause && !claimed.has(contact.id)
+      && r.tapAtMs >= contact.shownAtMs + SCAN_MIN_DETECT_MS && r.tapAtMs <= contact.goneAtMs + TAP_GRACE_MS
+      && isInField({ bearing: pause.bearing, positionAngle: pause.positionAngle, fieldDeg: pause.fieldDeg + 2 * FIELD_EDGE_GRACE_DEG }, contact)
     if (matched) claimed.add(contact.id)
     return {
       contactId: r.contactId,

@@ -90,6 +90,7 @@ export const MATRIX: Record<string, Entry> = {
   // Own passes; a lead's or instructor's crew member's; anyone's for an admin.
   'GET /api/scan/passes': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
   'POST /api/scan/passes': signedIn,
+  'POST /api/scan/passes/start': signedIn,
   'GET /api/checks': signedIn,
   'POST /api/checks': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
   'GET /api/checks/:check': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },

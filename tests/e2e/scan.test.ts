@@ -1,28 +1,18 @@
 // Scan drills over HTTP: drill CRUD and its checks, passes scored by the server, who may read them.
 import { beforeAll, describe, expect, it } from 'vitest'
 import { median } from 'simple-statistics'
+import { PRACTICE_SCAN_SETTINGS } from '../../shared/schemas/scan'
 import { crewIdOf, freshPerson, signedIn } from '../support/client'
 import type { Client } from '../support/client'
+import { seedWith, sendPass, startPass, track } from '../support/scan-pass'
 
 const settings = {
   startBearing: 0, endBearing: 30, mode: 'surface', field: 'binoculars', stepDeg: 5, dwellMs: 1000,
   contactsPerMinute: 2, conditions: ['sunlit'], categories: ['aircraft', 'vessel'], lengthS: 30,
 }
 
-// A lookout holds each centre for 1 s, sampled every 100 ms, 0.7° below the horizon.
-function track(centres: number[]) {
-  const samples: { tMs: number, bearing: number, positionAngle: number }[] = []
-  centres.forEach((bearing, k) => {
-    for (let d = 0; d < 1000; d += 100) samples.push({ tMs: k * 1000 + d, bearing, positionAngle: -0.7 })
-  })
-  samples.push({ tMs: centres.length * 1000, bearing: centres[centres.length - 1]! + 1, positionAngle: -0.7 })
-  return samples
-}
-
-const contact = {
-  id: 'c1', bearing: 14, positionAngle: 0, shownAtMs: 500, goneAtMs: 20_000,
-  category: 'vessel', rangeM: 12_000, sizeM: 20, condition: 'sunlit',
-}
+// The practice sector cut to 30 s, as /scan?length=30 starts it.
+const practice = { ...PRACTICE_SCAN_SETTINGS, lengthS: 30 }
 
 describe('scan drills', () => {
   let instructor: Client
@@ -102,13 +92,24 @@ describe('scan drills', () => {
 })
 
 describe('scan passes', () => {
+  let drillId = ''
+  let crewA = ''
+  let crewB = ''
+  beforeAll(async () => {
+    crewA = await crewIdOf('lead@glint.demo')
+    crewB = await crewIdOf('lead2@glint.demo')
+    const instructor = await signedIn('instructor@glint.demo')
+    const r = await instructor.post('/api/scan/drills', { title: 'Pass test arc', settings })
+    drillId = r.body.id
+    await instructor.req('PUT', `/api/scan/drills/${drillId}/crews`, { crewIds: [crewA, crewB] })
+  })
+
   it('scores a hand-made track on the server: one 9° step with a 7° field leaves a gap (common practice, no source); a sent score is ignored', async () => {
-    const t = await freshPerson('trainee', await crewIdOf('lead@glint.demo'))
+    const t = await freshPerson('trainee', crewA)
+    const start = await startPass(t.client, { drillId })
+    expect(start.settings).toEqual(settings)
     // 3.5 → 12.5 is a 9° step: fields [0, 7] and [9, 16] leave 7°–9° unseen; then 5° steps.
-    const samples = track([3.5, 12.5, 17.5, 22.5, 27.5])
-    const r = await t.client.post('/api/scan/passes', {
-      settings, samples, contacts: [contact],
-      reports: [{ contactId: 'c1', tapAtMs: 1500, reportedAtMs: 4500, category: 'vessel', bearing: 16, positionAngle: 0, closing: 'closing' }],
+    const r = await sendPass(t.client, start, track([3.5, 12.5, 17.5, 22.5, 27.5]), [], {
       score: { coverage: 1, gaps: [], contactsFound: 9 },
       coverage: 1,
     })
@@ -121,23 +122,35 @@ describe('scan passes', () => {
     expect(r.body.coverage).toBeCloseTo(1 - 2 / 30, 6)
     expect(s.sweeping).toBe(false)
     expect(s.pauseCount).toBe(5)
-    // At 1.5 s the field holds 12.5°: the contact at 14° is in it, shown at 0.5 s.
-    expect(s.contactsFound).toBe(1)
-    expect(s.medianDetectMs).toBe(1000)
-    expect(s.medianReportMs).toBe(3000)
-    expect(s.medianBearingErrorDeg).toBe(2)
+    expect(s.contactsFound).toBe(0)
 
     const mine = await t.client.get('/api/scan/passes')
     expect(mine.status).toBe(200)
     expect(mine.body).toHaveLength(1)
     expect(mine.body[0].id).toBe(r.body.id)
-    expect(mine.body[0].contactsFound).toBe(1)
+  })
+
+  it('counts a contact reported inside a pause whose field held it (7° field, common practice, no source)', async () => {
+    const t = await freshPerson('trainee', crewA)
+    // A practice scene whose contact shows by 1.5 s within 2° of 13.5° (the third pause of the track).
+    const { seed, contact } = seedWith(practice, c => c.shownAtMs <= 1500 && Math.abs(c.bearing - 13.5) < 2 && c.positionAngle < 2)
+    const start = await startPass(t.client, { drillId: null, lengthS: 30, seed })
+    expect(start.seed).toBe(seed)
+    // The field holds 13.5° from 2 s to 3 s; the tap at 2.5 s.
+    const r = await sendPass(t.client, start, track([3.5, 8.5, 13.5, 18.5]), [
+      { contactId: contact.id, tapAtMs: 2500, reportedAtMs: 5000, category: contact.category, bearing: 16, positionAngle: 0, closing: 'closing' },
+    ])
+    expect(r.status).toBe(201)
+    expect(r.body.contactsFound).toBe(1)
+    expect(r.body.score.medianDetectMs).toBe(2500 - contact.shownAtMs)
+    expect(r.body.score.medianReportMs).toBe(2500)
+    expect(r.body.score.medianBearingErrorDeg).toBeCloseTo(Math.abs(16 - contact.bearing), 9)
   })
 
   it('scores a pass that moves without pausing as sweeping', async () => {
-    const t = await freshPerson('trainee', await crewIdOf('lead@glint.demo'))
+    const t = await freshPerson('trainee', crewA)
     const samples = Array.from({ length: 61 }, (_, k) => ({ tMs: k * 50, bearing: k * 0.5, positionAngle: -0.7 }))
-    const r = await t.client.post('/api/scan/passes', { settings, samples, contacts: [], reports: [] })
+    const r = await sendPass(t.client, await startPass(t.client, { drillId }), samples)
     expect(r.status).toBe(201)
     expect(r.body.score.sweeping).toBe(true)
     expect(r.body.score.coverage).toBe(0)
@@ -145,23 +158,24 @@ describe('scan passes', () => {
 
   it('refuses a malformed pass with a 400', async () => {
     const c = await signedIn('trainee2@glint.demo')
-    const base = { settings, samples: track([3.5, 8.5]), contacts: [], reports: [] }
+    const start = await startPass(c, { drillId })
+    const base = { startId: start.id, samples: track([3.5, 8.5]), reports: [] }
     expect((await c.post('/api/scan/passes', { ...base, samples: [] })).status).toBe(400)
     // Past the sample bound: refused by the schema (400), or earlier by the body cap (413).
-    const tooMany = await c.post('/api/scan/passes', { ...base, samples: Array.from({ length: 20_001 }, (_, k) => ({ tMs: k, bearing: 1, positionAngle: 0 })) })
+    const tooMany = await c.post('/api/scan/passes', { ...base, samples: Array.from({ length: 15_026 }, (_, k) => ({ tMs: k, bearing: 1, positionAngle: 0 })) })
     expect([400, 413]).toContain(tooMany.status)
     expect((await c.post('/api/scan/passes', { ...base, samples: [{ tMs: 0, bearing: 500, positionAngle: 0 }, { tMs: 1, bearing: 1, positionAngle: 0 }] })).status).toBe(400)
-    expect((await c.post('/api/scan/passes', { ...base, settings: { ...settings, lengthS: 5 } })).status).toBe(400)
     // A pass of 30 s cannot run for 10 minutes.
     expect((await c.post('/api/scan/passes', { ...base, samples: [{ tMs: 0, bearing: 1, positionAngle: 0 }, { tMs: 600_000, bearing: 1, positionAngle: 0 }] })).status).toBe(400)
     expect((await c.post('/api/scan/passes', { ...base, reports: [{ contactId: null, tapAtMs: 10, reportedAtMs: 5, category: 'vessel', bearing: 1, positionAngle: 0, closing: 'closing' }] })).status).toBe(400)
-    expect((await c.post('/api/scan/passes', { ...base, drillId: 'AAAAAAAAAAAAAAAAAAAAAA' })).status).toBe(404)
+    const noDrill = await c.post('/api/scan/passes/start', { drillId: 'AAAAAAAAAAAAAAAAAAAAAA' })
+    expect(noDrill.status).toBe(404)
+    expect(noDrill.body.message).toMatch(/No such scan drill/)
   })
 
   it('lets the own lead read the passes, and refuses another crew\'s lead and trainees (403)', async () => {
-    const crewA = await crewIdOf('lead@glint.demo')
     const t = await freshPerson('trainee', crewA)
-    expect((await t.client.post('/api/scan/passes', { settings, samples: track([3.5, 8.5, 13.5]), contacts: [], reports: [] })).status).toBe(201)
+    expect((await sendPass(t.client, await startPass(t.client, { drillId }), track([3.5, 8.5, 13.5]))).status).toBe(201)
     const lead = await signedIn('lead@glint.demo')
     const own = await lead.get(`/api/scan/passes?userId=${t.id}`)
     expect(own.status).toBe(200)
@@ -174,15 +188,17 @@ describe('scan passes', () => {
   })
 
   it('GET /api/crews/[id]/scan matches the stored passes (medians by simple-statistics)', async () => {
-    const crewB = await crewIdOf('lead2@glint.demo')
     const t = await freshPerson('trainee', crewB)
+    const { seed, contact } = seedWith(practice, c => c.shownAtMs <= 1500 && Math.abs(c.bearing - 13.5) < 2 && c.positionAngle < 2)
     const passes = [
-      { samples: track([3.5, 8.5, 13.5, 18.5, 23.5, 28.5]), reports: [{ contactId: 'c1', tapAtMs: 2700, reportedAtMs: 4000, category: 'vessel', bearing: 14, positionAngle: 0, closing: 'unknown' }] },
-      { samples: track([3.5, 12.5, 17.5, 22.5, 27.5]), reports: [] },
-      { samples: Array.from({ length: 61 }, (_, k) => ({ tMs: k * 50, bearing: k * 0.5, positionAngle: -0.7 })), reports: [] },
+      { body: { drillId: null, lengthS: 30, seed }, samples: track([3.5, 8.5, 13.5, 18.5, 23.5, 28.5]), reports: [{ contactId: contact.id, tapAtMs: 2700, reportedAtMs: 4000, category: contact.category, bearing: 14, positionAngle: 0, closing: 'unknown' as const }] },
+      { body: { drillId }, samples: track([3.5, 12.5, 17.5, 22.5, 27.5]), reports: [] },
+      { body: { drillId }, samples: Array.from({ length: 61 }, (_, k) => ({ tMs: k * 50, bearing: k * 0.5, positionAngle: -0.7 })), reports: [] },
     ]
-    for (const p of passes) {
-      expect((await t.client.post('/api/scan/passes', { settings, samples: p.samples, contacts: [contact], reports: p.reports })).status).toBe(201)
+    // Started together, sent in order once each has run its time.
+    const starts = await Promise.all(passes.map(p => startPass(t.client, p.body)))
+    for (const [i, p] of passes.entries()) {
+      expect((await sendPass(t.client, starts[i]!, p.samples, p.reports)).status).toBe(201)
     }
     const stored = (await t.client.get('/api/scan/passes')).body as any[]
     expect(stored).toHaveLength(3)
@@ -197,7 +213,7 @@ describe('scan passes', () => {
     expect(row.sweepingShare).toBeCloseTo(stored.filter(p => p.score.sweeping).length / 3, 9)
     const shown = stored.reduce((n, p) => n + p.contactsShown, 0)
     expect(row.contactsFoundShare).toBeCloseTo(stored.reduce((n, p) => n + p.contactsFound, 0) / shown, 9)
-    expect(row.medianDetectMs).toBe(2700 - 500)
+    expect(row.medianDetectMs).toBe(2700 - contact.shownAtMs)
     // The newest pass is the sweep.
     expect(row.latest.coverage).toBe(stored[0].coverage)
     expect(row.latest.sweeping).toBe(true)

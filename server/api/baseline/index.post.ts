@@ -4,6 +4,7 @@ import { BaselineBody } from '#shared/schemas/drill'
 export default defineEventHandler(async (event) => {
   const actor = await requireActor(event)
   const body = await readInput(event, BaselineBody)
+  await spend('baselineAccount', actor.id, 'tap baselines')
   const row = saveTapBaseline(actor.id, body)
   setResponseStatus(event, 201)
   return row

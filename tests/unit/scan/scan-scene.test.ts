@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { PRACTICE_SCAN_SETTINGS, ScanDrillSettings, ScanPassBody } from '../../../shared/schemas/scan'
+import { PRACTICE_SCAN_SETTINGS, ScanDrillSettings } from '../../../shared/schemas/scan'
 import {
   placeScanContacts,
   scanCloudNoise,
@@ -37,8 +37,6 @@ describe('placeScanContacts', () => {
       expect(c.goneAtMs).toBeLessThanOrEqual(config.lengthS * 1000)
       expect(config.categories).toContain(c.category)
       expect(config.conditions).toContain(c.condition)
-      // Every contact passes the server's schema as the page sends it.
-      expect(ScanPassBody.shape.contacts.element.safeParse(c).success).toBe(true)
     }
   })
 

@@ -115,4 +115,9 @@ export const MATRIX: Record<string, Entry> = {
     anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
     otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
   },
+  // Files under server/routes. A rendering by content hash: its deck's owner and admins only; a
+  // sighting's picture: the trainee it was issued to only. Anyone else, or an unknown name: 404
+  // (real ids: tests/e2e/sighting-images.test.ts, decks-uploads.test.ts).
+  'GET /images/:file': { anon: 401, trainee: 404, instructor: 404, lead: 404, admin: 404 },
+  'GET /images/s/:file': { anon: 401, trainee: 404, instructor: 404, lead: 404, admin: 404 },
 }

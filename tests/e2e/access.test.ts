@@ -21,7 +21,9 @@ function check(status: number, expected: Expect, label: string) {
 }
 
 describe('authorisation matrix', () => {
-  const keys = routeFiles('server/api').map(routeKey)
+  // server/routes/images/s/[file].get.ts -> GET /images/s/:file
+  const fileKeys = routeFiles('server/routes').map(f => routeKey(f).replace(' /routes/', ' /').replace('[file]', ':file'))
+  const keys = [...routeFiles('server/api').map(routeKey), ...fileKeys]
   let ownCrew = ''
   let otherCrew = ''
 
@@ -42,11 +44,13 @@ describe('authorisation matrix', () => {
     it(key, async () => {
       const entry = MATRIX[key]!
       const crewScoped = key.includes(':crew')
-      const anon = concrete(key, { crew: ownCrew })
+      // A well-formed name that exists nowhere: a sighting id, or a SHA-256 in hex.
+      const file = key.includes('/images/s/') ? 'AAAAAAAAAAAAAAAAAAAAAA.webp' : `${'0'.repeat(64)}.webp`
+      const anon = concrete(key, { crew: ownCrew, file })
       check((await new Client().req(anon.method, anon.path, anon.method === 'GET' ? undefined : {})).status, entry.anon, `${key} anonymous`)
       for (const role of ROLES) {
         // The demo trainee and instructor are in the lead's crew (Skerrow Point); lead2 leads the other.
-        const own = concrete(key, { crew: ownCrew })
+        const own = concrete(key, { crew: ownCrew, file })
         const c = await signedIn(PEOPLE[role])
         check((await c.req(own.method, own.path, own.method === 'GET' ? undefined : {})).status, entry[role], `${key} as ${role}`)
         if (crewScoped) {

@@ -35,6 +35,8 @@ export const crews = sqliteTable('crews', {
   minAccuracy: real('min_accuracy').notNull().default(0.9),
   minCallsPerTrack: integer('min_calls_per_track').notNull().default(2),
   windowDays: integer('window_days').notNull().default(14),
+  // Whether calls graded on the phone offline (the pack held their answers) count toward readiness.
+  offlineCounts: integer('offline_counts', { mode: 'boolean' }).notNull().default(false),
   ...timestamps,
 }, t => [uniqueIndex('crews_name_uq').on(t.name)])
 
@@ -243,6 +245,8 @@ export const calls = sqliteTable('calls', {
   calledAt: integer('called_at').notNull(),
   receivedAt: integer('received_at').notNull(),
   offline: integer('offline', { mode: 'boolean' }).notNull().default(false),
+  // 'watch' (a drill call) or 'check' (a qualification check's call, shown on the check pages only).
+  kind: text('kind').notNull().default('watch'),
   // FSRS state before and after, so a track's history can be replayed.
   before: text('before', { mode: 'json' }).$type<Record<string, number | null>>(),
   after: text('after', { mode: 'json' }).$type<Record<string, number | null>>(),
@@ -252,9 +256,11 @@ export const calls = sqliteTable('calls', {
   // No separate (user, time) or (deck, time) index: the covering index below serves both through
   // its (user_id, deck_id) prefix, and every index is one more page written by each call.
   // Covers the crew table's per-person counts and latencies, so they are read from the index alone.
-  index('calls_user_deck_time_idx').on(t.userId, t.deckId, t.calledAt, t.correct, t.grade, t.anticipation, t.latencyMs, t.aspect, t.condition, t.targetTypeId),
+  // Drill calls only: a check's calls never enter the drill statistics (queries say kind = 'watch').
+  index('calls_user_deck_time_idx').on(t.userId, t.deckId, t.calledAt, t.correct, t.grade, t.anticipation, t.latencyMs, t.aspect, t.condition, t.targetTypeId, t.offline)
+    .where(sql`kind = 'watch'`),
   // Readiness counts the calls on each (target type, aspect) pair of a deck in the standard's window.
-  index('calls_user_deck_pair_time_idx').on(t.userId, t.deckId, t.targetTypeId, t.aspect, t.calledAt),
+  index('calls_user_deck_pair_time_idx').on(t.userId, t.deckId, t.targetTypeId, t.aspect, t.calledAt, t.offline).where(sql`kind = 'watch'`),
 ])
 
 export const tapBaselines = sqliteTable('tap_baselines', {

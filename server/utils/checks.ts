@@ -12,7 +12,7 @@ import type {
   AttemptStatus, AttemptSummary, CheckCallRecorded, CheckInput, CheckLists, CheckPatchInput, CheckResult, CheckToTake, CheckView, CrewChecks,
 } from '../../shared/schemas/checks'
 import type { IssuedSighting, IssuedWatch } from '../../shared/types/drill'
-import { isUntilCall, maskUrlFor, viewsWithRenderings } from './drill-plan'
+import { isUntilCall, maskUrlFor, sightingImageUrl, viewsWithRenderings } from './drill-plan'
 import type { ContentVariant, DeckContent, PlannedChoice } from './drill-plan'
 import type { Actor } from './gate'
 import { crewsLedOver, hasRole } from './gate'
@@ -261,7 +261,7 @@ export interface IssuedCheck extends IssuedWatch {
 function crewConfusions(sqlite: Database, userId: string, deckId: string) {
   const out = new Map<string, Map<string, number>>()
   const rows = sqlite.prepare(`SELECT c.target_type_id AS shown, c.called_type_id AS called, count(*) AS n FROM calls c
-    WHERE c.deck_id = ? AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
+    WHERE c.deck_id = ? AND c.kind = 'watch' AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
     AND c.user_id IN (SELECT m2.user_id FROM memberships m1 JOIN memberships m2 ON m2.crew_id = m1.crew_id WHERE m1.user_id = ?)
     GROUP BY 1, 2`).all(deckId, userId) as { shown: string, called: string, n: number }[]
   for (const r of rows) {
@@ -340,7 +340,7 @@ export function startCheckAttempt(sqlite: Database, actor: Actor, checkId: strin
       return {
         id,
         position,
-        imageUrl: `/images/${variant.file}`,
+        imageUrl: sightingImageUrl(id),
         maskUrl: maskUrlFor(id),
         choices: choices.map(x => ({ id: x.id, label: x.label })),
         answerMode: deck.answerMode === 'typed' ? 'typed' : 'choices',
@@ -400,7 +400,7 @@ export function recordCheckCall(sqlite: Database, f: CheckCallFields, nowMs = Da
     const result: CheckCallRecorded = { recorded: true, sightingId: f.sightingId }
     sqlite.prepare(`INSERT INTO calls (id, sighting_id, user_id, deck_id, track_id, target_type_id, called_type_id, aspect, condition,
       choice_id, typed, correct, grade, anticipation, latency_ms, frames_shown, frame_interval_ms, called_at, received_at, offline,
-      before, after, result) VALUES (?, ?, ?, ?, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL, NULL, ?)
+      kind, before, after, result) VALUES (?, ?, ?, ?, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'check', NULL, NULL, ?)
       ON CONFLICT (sighting_id) DO NOTHING`).run(newCallId(), f.sightingId, f.userId, f.deckId, f.targetTypeId, f.calledTypeId, f.aspect,
       f.condition, f.choiceId, f.typed, f.correct ? 1 : 0, f.grade, f.anticipation ? 1 : 0, f.latencyMs, f.framesShown, f.frameIntervalMs,
       f.calledAt, nowMs, f.offline ? 1 : 0, JSON.stringify(result))

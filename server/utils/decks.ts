@@ -117,8 +117,18 @@ function typesWithViews(deckId: string) {
   }))
 }
 
-/** GET /api/decks/[id], exactly as api.md writes it. */
-export function deckDetail(deck: DeckRow) {
+// Those who build or manage a deck: its owner and admins. Only they get its renderings' addresses
+// (content hashes): a trainee who could list them could map a sighting's picture to its target type.
+export function managesDeck(actor: Actor, deck: DeckRow) {
+  return hasRole(actor, 'admin') || deck.ownerId === actor.id
+}
+
+/**
+ * GET /api/decks/[id], as api.md writes it; each view's `variants` (rendering addresses) only for
+ * those who manage the deck (managesDeck), an empty list for everyone else.
+ */
+export function deckDetail(deck: DeckRow, actor: Actor) {
+  const withRenderings = managesDeck(actor, deck)
   return {
     id: deck.id,
     title: deck.title,
@@ -132,7 +142,7 @@ export function deckDetail(deck: DeckRow) {
       views: views.map(({ view, variants }) => ({
         id: view.id,
         aspect: view.aspect,
-        variants: variants.map(v => ({ condition: v.condition, width: v.width, url: renderUrl(v.file) })),
+        variants: withRenderings ? variants.map(v => ({ condition: v.condition, width: v.width, url: renderUrl(v.file) })) : [],
       })),
     })),
   }
@@ -400,12 +410,12 @@ export async function deleteView(actor: Actor, viewId: string) {
   audit(actor, 'view.delete', 'view', viewId)
 }
 
-/** May the actor see a deck that uses this rendering? */
+/** Does the actor manage (own, or administer) the deck that uses this rendering? See managesDeck. */
 export function fileVisibleTo(actor: Actor, file: string) {
   const row = useDb().select({ deck: tables.decks }).from(tables.variants)
     .innerJoin(tables.views, eq(tables.views.id, tables.variants.viewId))
     .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.views.targetTypeId))
     .innerJoin(tables.decks, eq(tables.decks.id, tables.targetTypes.deckId))
     .where(eq(tables.variants.file, file)).get()
-  return !!row && canSeeDeck(actor, row.deck)
+  return !!row && managesDeck(actor, row.deck)
 }

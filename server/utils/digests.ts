@@ -59,14 +59,15 @@ export async function runWeeklyDigests(nowMs: number, opts: DigestOptions = {}):
   const { weekStart, weekEnd, period } = digestWeek(nowMs)
   const base = opts.baseUrl ?? appUrl()
   const claim = claimer(sqlite, 'weekly', opts.actorId ?? null)
-  const crews = sqlite.prepare('SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays FROM crews ORDER BY name')
-    .all() as { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number }[]
+  const crews = sqlite.prepare(`SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
+    offline_counts AS offlineCounts FROM crews ORDER BY name`)
+    .all() as { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number, offlineCounts: number }[]
   const decksOf = sqlite.prepare(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
     WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`)
   const membersWith = sqlite.prepare(`SELECT u.id, u.name, u.email FROM memberships m JOIN users u ON u.id = m.user_id
     WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = ?) ORDER BY u.name`)
   const keysOf = sqlite.prepare(`SELECT DISTINCT v.target_type_id AS targetTypeId, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id = ?`)
-  const lastCall = sqlite.prepare(`SELECT called_at FROM calls WHERE user_id = ? AND called_at < ? AND deck_id IN (SELECT value FROM json_each(?))
+  const lastCall = sqlite.prepare(`SELECT called_at FROM calls WHERE user_id = ? AND kind = 'watch' AND called_at < ? AND deck_id IN (SELECT value FROM json_each(?))
     ORDER BY called_at DESC LIMIT 1`).pluck()
 
   const result: DigestRunResult = { kind: 'weekly', period, sent: 0, alreadySent: 0, skipped: 0 }
@@ -79,7 +80,7 @@ export async function runWeeklyDigests(nowMs: number, opts: DigestOptions = {}):
     const decks = decksOf.all(crew.id) as DeckRow[]
     const deckIds = decks.map(d => d.id)
     const keys = new Map(decks.map(d => [d.id, keysOf.all(d.id) as { targetTypeId: string, aspect: string }[]]))
-    const standard = { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays }
+    const standard = { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays, offlineCounts: crew.offlineCounts === 1 }
     const people: DigestPerson[] = (membersWith.all(crew.id, 'trainee') as { id: string, name: string }[]).map((t) => {
       const calls = loadPersonCalls(sqlite, t.id, deckIds, weekStart - crew.windowDays * DAY_MS, weekEnd - 1)
       const weekAgo = calls.filter(c => c.calledAt <= weekStart)

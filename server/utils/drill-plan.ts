@@ -18,6 +18,16 @@ export const MAX_RESHOWS_PER_TRACK = 2
 // Noise masks shipped under public/masks/ (scripts/make-masks.ts).
 export const MASK_COUNT = 8
 
+/**
+ * A sighting's picture at its own address, resolved on the server for the trainee it was issued to
+ * (server/routes/images/s/[file].get.ts). Never the rendering's content hash: the same rendering in two
+ * sightings has two addresses, so no list of renderings maps a sighting to its target type. Under
+ * /images/ so the service worker keeps it for the offline watch (nuxt.config.ts, pwa).
+ */
+export function sightingImageUrl(sightingId: string) {
+  return `/images/s/${sightingId}.webp`
+}
+
 /** The noise mask of a sighting: picked from its (random) id, so it says nothing about the answer. */
 export function maskUrlFor(sightingId: string) {
   return `/masks/noise-${seedFromString(sightingId) % MASK_COUNT}.webp`

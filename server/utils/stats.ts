@@ -25,17 +25,21 @@ export interface StatsFilters {
   condition?: string
 }
 
-interface CrewRow { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number }
+interface CrewRow { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number, offlineCounts: number }
 interface DeckRow { id: string, title: string, hesitationMs: number }
 
 // ---------------------------------------------------------------- statements
 
-const CALL_COLUMNS = 'deck_id, target_type_id, called_type_id, aspect, condition, correct, grade, anticipation, latency_ms, called_at'
+const CALL_COLUMNS = 'deck_id, target_type_id, called_type_id, aspect, condition, correct, grade, anticipation, latency_ms, called_at, offline'
+// Drill calls only: a check's calls are its own measure and show on the check pages alone. The crew
+// table's covering indexes hold drill calls only (partial indexes WHERE kind = 'watch').
+const DRILL = 'kind = \'watch\''
 
 function statementsFor(sqlite: Database) {
   const p = (s: string) => sqlite.prepare(s)
   return {
-    crew: p('SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays FROM crews WHERE id = ?'),
+    crew: p(`SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
+      offline_counts AS offlineCounts FROM crews WHERE id = ?`),
     crewDecks: p(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
       WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`),
     trainees: p(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
@@ -44,22 +48,22 @@ function statementsFor(sqlite: Database) {
     // Every (target type, aspect) pair with a view: what the standard asks to be called.
     trackKeys: p(`SELECT DISTINCT v.target_type_id, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id
       WHERE t.deck_id = ?`),
-    userCalls: p(`SELECT ${CALL_COLUMNS} FROM calls WHERE user_id = ? AND called_at >= ? AND called_at <= ?
+    userCalls: p(`SELECT ${CALL_COLUMNS} FROM calls WHERE user_id = ? AND ${DRILL} AND called_at >= ? AND called_at <= ?
       AND deck_id IN (SELECT value FROM json_each(?))`).raw(),
-    lastCall: p(`SELECT called_at FROM calls WHERE user_id = ? AND called_at <= ? AND deck_id IN (SELECT value FROM json_each(?))
+    lastCall: p(`SELECT called_at FROM calls WHERE user_id = ? AND ${DRILL} AND called_at <= ? AND deck_id IN (SELECT value FROM json_each(?))
       ORDER BY called_at DESC LIMIT 1`).pluck(),
     tracksDue: p(`SELECT COUNT(*) FROM tracks WHERE user_id = ? AND due <= ? AND deck_id IN (SELECT value FROM json_each(?))`).pluck(),
     typeNames: p(`SELECT t.id, t.name FROM target_types t WHERE t.deck_id IN (SELECT value FROM json_each(?)) ORDER BY t.name, t.id`),
     typeName: p('SELECT name FROM target_types WHERE id = ?').pluck(),
-    crewDeckCalls: p(`SELECT target_type_id, called_type_id FROM calls WHERE deck_id = ? AND called_at >= ? AND called_at <= ?
+    crewDeckCalls: p(`SELECT target_type_id, called_type_id FROM calls WHERE deck_id = ? AND ${DRILL} AND called_at >= ? AND called_at <= ?
       AND user_id IN (SELECT user_id FROM memberships WHERE crew_id = ?)`).raw(),
     deck: p('SELECT id, title, owner_id AS ownerId, hesitation_ms AS hesitationMs FROM decks WHERE id = ?'),
     deckCrews: p(`SELECT c.id, c.name FROM deck_crews dc JOIN crews c ON c.id = dc.crew_id WHERE dc.deck_id = ? ORDER BY c.name`),
-    deckCalls: p(`SELECT target_type_id, called_type_id, aspect, condition FROM calls WHERE deck_id = ? AND called_at >= ? AND called_at <= ?
+    deckCalls: p(`SELECT target_type_id, called_type_id, aspect, condition FROM calls WHERE deck_id = ? AND ${DRILL} AND called_at >= ? AND called_at <= ?
       AND user_id IN (SELECT m.user_id FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id WHERE dc.deck_id = ?)`).raw(),
     user: p('SELECT id, name, reminders_opt_out AS remindersOptOut FROM users WHERE id = ?'),
-    userCrews: p(`SELECT c.id, c.name, c.min_accuracy AS minAccuracy, c.min_calls_per_track AS minCallsPerTrack, c.window_days AS windowDays
-      FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`),
+    userCrews: p(`SELECT c.id, c.name, c.min_accuracy AS minAccuracy, c.min_calls_per_track AS minCallsPerTrack, c.window_days AS windowDays,
+      c.offline_counts AS offlineCounts FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`),
     baseline: p('SELECT simple_ms AS simpleMs, choice_ms AS choiceMs, created_at AS at FROM tap_baselines WHERE user_id = ? ORDER BY created_at DESC LIMIT 1'),
     ownsDeckInCrew: p(`SELECT 1 FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id WHERE dc.crew_id = ? AND d.owner_id = ? LIMIT 1`).pluck(),
     ownsDeckOfPerson: p(`SELECT 1 FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id JOIN decks d ON d.id = dc.deck_id
@@ -79,7 +83,7 @@ function stmts(sqlite: Database): Statements {
   return s
 }
 
-type RawCall = [string, string, string | null, string, string, number, string, number, number | null, number]
+type RawCall = [string, string, string | null, string, string, number, string, number, number | null, number, number]
 
 export interface LoadedCall extends CallRecord {
   deckId: string
@@ -97,6 +101,7 @@ function toRecord(r: RawCall): LoadedCall {
     anticipation: r[7] === 1,
     latencyMs: r[8],
     calledAt: r[9],
+    offline: r[10] === 1,
   }
 }
 
@@ -114,7 +119,7 @@ function trackKeysOf(sqlite: Database, deckId: string): TrackKey[] {
 }
 
 function standardOf(crew: CrewRow): ReadinessStandard {
-  return { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays }
+  return { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays, offlineCounts: crew.offlineCounts === 1 }
 }
 
 // ---------------------------------------------------------------- access
@@ -220,10 +225,10 @@ const RIGHT = '(correct = 1 AND grade != \'missed\' AND anticipation = 0)'
 
 // One number per call for the crew table, so a person's calls come back in one scan of the covering
 // index as plain integers (no grouping, no sort, no row objects):
-//   ((((code · decks + deck) · 2 + onDeckType) · 2 + matchesFilter) · 8 + period
+//   (((((code · decks + deck) · 2 + onDeckType) · 2 + offline) · 2 + matchesFilter) · 8 + period
 // code: 0 not a right call, 1 right without a latency, latency + 2 for a right call with one;
 // deck: the call's deck's index in scope; onDeckType: in the standard's window, on a target type
-// with a view in its deck;
+// with a view in its deck, and online unless the standard counts offline calls; offline: graded offline;
 // period: how many of the cut times (newest first) the call comes before. Every factor is whole and
 // small (a latency is at most MAX_LATENCY_MS), so the number is exact and decodes back in JS.
 const PERIOD_SLOTS = 8
@@ -234,18 +239,18 @@ export function packedSql({ cuts, decks, filtered }: PackedStatementKey): string
   const period = Array.from({ length: cuts }, () => '(called_at < ?)').join(' + ') || '0'
   const deck = decks > 1 ? `(CASE deck_id ${Array.from({ length: decks }, (_, i) => `WHEN ? THEN ${i}`).join(' ')} END)` : '0'
   // Looked up only for calls in the standard's window, the only ones readiness reads.
-  const onDeckType = `(called_at >= ? AND target_type_id IN (SELECT v.target_type_id FROM views v JOIN target_types t ON t.id = v.target_type_id
-    WHERE t.deck_id IN (SELECT value FROM json_each(?))))`
+  const onDeckType = `(called_at >= ? AND (? OR offline = 0) AND target_type_id IN (SELECT v.target_type_id FROM views v
+    JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id IN (SELECT value FROM json_each(?))))`
   const matches = filtered ? '((? IS NULL OR aspect = ?) AND (? IS NULL OR condition = ?))' : '1'
   const code = `(CASE WHEN ${RIGHT} THEN coalesce(latency_ms + 2, 1) ELSE 0 END)`
-  return `SELECT ((((${code} * ${decks} + ${deck}) * 2 + ${onDeckType}) * 2 + ${matches}) * ${PERIOD_SLOTS} + ${period})
-    FROM calls WHERE user_id = ? AND deck_id IN (SELECT value FROM json_each(?)) AND called_at >= ? AND called_at < ?`
+  return `SELECT (((((${code} * ${decks} + ${deck}) * 2 + ${onDeckType}) * 2 + offline) * 2 + ${matches}) * ${PERIOD_SLOTS} + ${period})
+    FROM calls WHERE user_id = ? AND ${DRILL} AND deck_id IN (SELECT value FROM json_each(?)) AND called_at >= ? AND called_at < ?`
 }
 
-// Calls on each (target type, aspect) pair of a JSON list in [from, to], in the list's order: one
-// seek of calls_user_deck_pair_time_idx a pair.
-export const PAIR_COUNTS_SQL = `SELECT (SELECT COUNT(*) FROM calls c WHERE c.user_id = ? AND c.deck_id = ?
-  AND c.target_type_id = k.value ->> 0 AND c.aspect = k.value ->> 1 AND c.called_at >= ? AND c.called_at <= ?)
+// Drill calls on each (target type, aspect) pair of a JSON list in [from, to], in the list's order
+// (offline ones only when the second ? is 1): one seek of calls_user_deck_pair_time_idx a pair.
+export const PAIR_COUNTS_SQL = `SELECT (SELECT COUNT(*) FROM calls c WHERE c.user_id = ? AND c.${DRILL} AND c.deck_id = ?
+  AND c.target_type_id = k.value ->> 0 AND c.aspect = k.value ->> 1 AND c.called_at >= ? AND c.called_at <= ? AND (? OR c.offline = 0))
   FROM json_each(?) k ORDER BY k.key`
 
 // The pairs of a deck as the JSON list PAIR_COUNTS_SQL reads, made once per list of keys.
@@ -289,8 +294,8 @@ function quantileOf(sorted: Float64Array, p: number): number | null {
   return sorted.length ? quantileSorted(sorted, p) : null
 }
 
-/** Per period: calls, right calls and right calls' latencies that match the filters. */
-interface PeriodFigures { calls: number[], right: number[], latencies: number[][] }
+/** Per period: calls, of them offline, right calls and right calls' latencies that match the filters. */
+interface PeriodFigures { calls: number[], offline: number[], right: number[], latencies: number[][] }
 
 /**
  * One person's calls on the decks in scope, counted per period (newest first) for the table, and
@@ -302,11 +307,13 @@ export function personTallies(
   userId: string,
   decks: readonly DeckRow[],
   keysByDeck: ReadonlyMap<string, readonly TrackKey[]>,
-  scope: { cutTimes: readonly number[], oldestMs: number, windowFromMs: number, nowMs: number },
+  scope: { cutTimes: readonly number[], oldestMs: number, windowFromMs: number, nowMs: number, offlineCounts: boolean },
   filter: { aspect: string | null, condition: string | null },
 ): { periods: PeriodFigures, readiness: ReadinessTally[] } {
   const n = scope.cutTimes.length + 1
-  const periods: PeriodFigures = { calls: Array(n).fill(0), right: Array(n).fill(0), latencies: Array.from({ length: n }, () => []) }
+  const periods: PeriodFigures = {
+    calls: Array(n).fill(0), offline: Array(n).fill(0), right: Array(n).fill(0), latencies: Array.from({ length: n }, () => []),
+  }
   const tallies = decks.map(() => ({ calls: 0, right: 0, latencies: [] as number[] }))
   if (!decks.length) return { periods, readiness: [] }
   const t = tableStmts(sqlite)
@@ -314,23 +321,27 @@ export function personTallies(
   const deckJson = JSON.stringify(deckIds)
   const filtered = filter.aspect !== null || filter.condition !== null
   // In the order the placeholders come in packedSql: deck, onDeckType, matches, period, then WHERE.
-  const args: unknown[] = decks.length > 1 ? [...deckIds, scope.windowFromMs, deckJson] : [scope.windowFromMs, deckJson]
+  const offlineCounts = scope.offlineCounts ? 1 : 0
+  const onDeckType = [scope.windowFromMs, offlineCounts, deckJson]
+  const args: unknown[] = decks.length > 1 ? [...deckIds, ...onDeckType] : onDeckType
   if (filtered) args.push(filter.aspect, filter.aspect, filter.condition, filter.condition)
   args.push(...scope.cutTimes, userId, deckJson, scope.oldestMs, scope.nowMs + 1)
   const values = t.packed({ cuts: scope.cutTimes.length, decks: decks.length, filtered }).all(...args) as number[]
   const nDecks = decks.length
   for (const v of values) {
-    // Below 2^31 (any latency up to MAX_LATENCY_MS on up to 1,100 decks) bit operations are exact
+    // Below 2^31 (any latency up to MAX_LATENCY_MS on up to 550 decks) bit operations are exact
     // and fast; above it, the same fields by division.
     const small = v < 0x80000000
     const period = small ? v & 7 : v % 8
     const matches = small ? (v >> 3) & 1 : Math.floor(v / 8) % 2
-    const onDeckType = small ? (v >> 4) & 1 : Math.floor(v / 16) % 2
-    const rest = small ? v >>> 5 : Math.floor(v / 32)
+    const offline = small ? (v >> 4) & 1 : Math.floor(v / 16) % 2
+    const onDeckType = small ? (v >> 5) & 1 : Math.floor(v / 32) % 2
+    const rest = small ? v >>> 6 : Math.floor(v / 64)
     const deck = nDecks === 1 ? 0 : rest % nDecks
     const code = nDecks === 1 ? rest : (rest - deck) / nDecks
     if (matches) {
       periods.calls[period]!++
+      if (offline) periods.offline[period]!++
       if (code > 0) periods.right[period]!++
       if (code > 1) periods.latencies[period]!.push(code - 2)
     }
@@ -343,7 +354,7 @@ export function personTallies(
   }
   const readinessTallies = decks.map((deck, i): ReadinessTally => {
     const keys = keysByDeck.get(deck.id) ?? []
-    const n = t.pairCounts.all(userId, deck.id, scope.windowFromMs, scope.nowMs, pairListOf(keys)) as number[]
+    const n = t.pairCounts.all(userId, deck.id, scope.windowFromMs, scope.nowMs, offlineCounts, pairListOf(keys)) as number[]
     const counts = new Map(keys.map((k, j) => [trackKeyOf(k.targetTypeId, k.aspect), n[j]!]))
     const { calls, right, latencies } = tallies[i]!
     return { calls, right, latencies: sortedCopy(latencies), counts }
@@ -377,13 +388,14 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
     oldestMs: nowMs - cuts[cuts.length - 1]! * DAY_MS,
     windowFromMs: nowMs - standard.windowDays * DAY_MS,
     nowMs,
+    offlineCounts: standard.offlineCounts,
   }
   const aspect = filters.aspect ?? null
   const condition = filters.condition ?? null
 
   const rows: CrewStatsRow[] = trainees.map((person) => {
     const { periods, readiness: tallies } = personTallies(sqlite, person.id, decks, keysByDeck, scope, { aspect, condition })
-    const spans = new Map<string, { n: number, r: number, sorted: Float64Array }>()
+    const spans = new Map<string, { n: number, r: number, offline: number, sorted: Float64Array }>()
     const span = (from: number, to: number) => {
       const key = `${from}:${to}`
       let figures = spans.get(key)
@@ -396,13 +408,15 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
     const spanOf = (from: number, to: number) => {
       let n = 0
       let r = 0
+      let o = 0
       const l: number[] = []
       for (let i = from; i <= to; i++) {
         n += periods.calls[i]!
+        o += periods.offline[i]!
         r += periods.right[i]!
         for (const x of periods.latencies[i]!) l.push(x)
       }
-      return { n, r, sorted: sortedCopy(l) }
+      return { n, r, offline: o, sorted: sortedCopy(l) }
     }
     const window = (d: number) => span(0, upTo(d))
     const before = (d: number) => span(upTo(d) + 1, upTo(2 * d))
@@ -426,6 +440,7 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
       userId: person.id,
       name: person.name,
       calls: main.n,
+      offlineCalls: main.offline,
       accuracy: main.n ? main.r / main.n : null,
       medianMs: quantileOf(main.sorted, 0.5),
       p90Ms: quantileOf(main.sorted, 0.9),
@@ -449,14 +464,14 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
 }
 
 export const CREW_CSV_COLUMNS = [
-  'userId', 'name', 'calls', 'accuracy', 'medianMs', 'p90Ms', 'ready',
+  'userId', 'name', 'calls', 'offlineCalls', 'accuracy', 'medianMs', 'p90Ms', 'ready',
   'accuracy7', 'medianMs7', 'accuracy30', 'medianMs30', 'lastWatchAt', 'tracksDue', 'missing',
 ] as const
 
 /** The crew table flattened for CSV: numbers unformatted, empty for no value, times in ISO 8601. */
 export function crewStatsRecords(stats: CrewStats): (string | number | boolean | null)[][] {
   return stats.rows.map(r => [
-    r.userId, r.name, r.calls, r.accuracy, r.medianMs, r.p90Ms, r.ready,
+    r.userId, r.name, r.calls, r.offlineCalls, r.accuracy, r.medianMs, r.p90Ms, r.ready,
     r.trend7.accuracy, r.trend7.medianMs, r.trend30.accuracy, r.trend30.medianMs,
     r.lastWatchAt === null ? null : new Date(r.lastWatchAt).toISOString(), r.tracksDue, r.missing.join('; '),
   ])

@@ -13,7 +13,7 @@ import { matchTypedAnswer } from '../../shared/utils/typed-answer'
 import type { CallInput } from '../../shared/schemas/drill'
 import type { CallResult, DeckWorkload, IssuedSighting, IssuedWatch, WatchPack, WatchToday } from '../../shared/types/drill'
 import {
-  drillableKeys, isUntilCall, maskUrlFor, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatch, reshowOrder, WATCH_MAX_SIGHTINGS,
+  drillableKeys, isUntilCall, maskUrlFor, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatch, reshowOrder, sightingImageUrl, WATCH_MAX_SIGHTINGS,
 } from './drill-plan'
 import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedSighting, PlanTrack } from './drill-plan'
 import { newCallId, newId } from './ids'
@@ -72,7 +72,7 @@ const SQL = {
   newToday: `SELECT count(DISTINCT track_id) AS n FROM calls WHERE user_id = ? AND deck_id = ? AND called_at >= ?
     AND json_extract(before, '$.reps') = 0`,
   confusions: `SELECT c.target_type_id AS shown, c.called_type_id AS called, count(*) AS n FROM calls c
-    WHERE c.deck_id = ? AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
+    WHERE c.deck_id = ? AND c.kind = 'watch' AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
     AND c.user_id IN (SELECT m2.user_id FROM memberships m1 JOIN memberships m2 ON m2.crew_id = m1.crew_id WHERE m1.user_id = ?)
     GROUP BY 1, 2`,
   openWatches: `SELECT id, day FROM watches WHERE user_id = ? AND deck_id = ? AND kind = 'watch' AND status = 'open' ORDER BY created_at DESC`,
@@ -110,6 +110,7 @@ const SQL = {
   reshowCount: `SELECT count(*) AS n FROM sightings WHERE watch_id = ? AND track_id = ? AND reshow_of IS NOT NULL`,
   setPosition: `UPDATE sightings SET position = ? WHERE id = ?`,
   maxPosition: `SELECT coalesce(max(position), -1) AS p FROM sightings WHERE watch_id = ?`,
+  sightingFile: `SELECT x.file FROM sightings s JOIN variants x ON x.id = s.variant_id WHERE s.id = ? AND s.user_id = ?`,
 } as const
 
 type StatementName = keyof typeof SQL
@@ -249,7 +250,7 @@ function issuedFromRow(r: StoredSightingRow, answerMode: string): IssuedSighting
   return {
     id: r.id,
     position: r.position,
-    imageUrl: `/images/${r.file}`,
+    imageUrl: sightingImageUrl(r.id),
     maskUrl: maskUrlFor(r.id),
     choices: publicChoices(r.choices),
     answerMode: answerMode === 'typed' ? 'typed' : 'choices',
@@ -576,6 +577,14 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     }
     return result
   })
+}
+
+// ---------------------------------------------------------------- a sighting's picture
+
+/** The rendering file of a sighting (watch or check) issued to this trainee; null for anyone else's or an unknown one. */
+export function sightingImageFile(sqlite: Database, userId: string, sightingId: string): string | null {
+  const row = stmt(sqlite, 'sightingFile').get(sightingId, userId) as { file: string } | undefined
+  return row?.file ?? null
 }
 
 // ---------------------------------------------------------------- the offline pack

@@ -36,6 +36,7 @@ export const CrewPatch = z.object({
   minAccuracy: z.number().min(0.5).max(1).optional(),
   minCallsPerTrack: z.number().int().min(1).max(20).optional(),
   windowDays: z.number().int().min(1).max(90).optional(),
+  offlineCounts: z.boolean().optional(),
 }).strict()
 
 export const MemberBody = z.object({ userId: Id }).strict()

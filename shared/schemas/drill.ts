@@ -10,6 +10,11 @@ export const TYPED_MAX = 80
 
 export const WatchBody = z.object({ deckId: Id.optional() }).strict()
 
+// `<sighting id>.webp`, the name of a sighting's picture under /images/s/ (same characters as Id).
+export const SightingImageParam = z.object({
+  file: z.string().regex(/^[\w-]{8,40}\.webp$/, 'Not an image name: use the address the watch gave you.'),
+})
+
 // One call. choiceId null (or no choiceId and no typed text with a null latency) is "no call within the window".
 export const CallBody = z.object({
   choiceId: Id.nullable().optional(),

@@ -14,6 +14,8 @@ export interface CrewStatsRow {
   userId: string
   name: string
   calls: number
+  // of those calls, how many were graded on the phone offline (server-decided, see calls.offline)
+  offlineCalls: number
   accuracy: number | null
   medianMs: number | null
   p90Ms: number | null
@@ -35,6 +37,8 @@ export interface ReadinessStandardView {
   minAccuracy: number
   minCallsPerTrack: number
   windowDays: number
+  // calls graded offline count toward readiness (default false)
+  offlineCounts: boolean
 }
 
 export interface CrewStats {

@@ -28,7 +28,8 @@ describe('the crew table (lead, desktop)', () => {
     const median = table.getByRole('columnheader', { name: /Median/ })
     await median.getByRole('button').click()
     await expect.poll(() => median.getAttribute('aria-sort')).toBe('ascending')
-    const values = (await rows.evaluateAll(trs => trs.map(tr => tr.querySelectorAll('td')[3]?.textContent ?? ''))).map(seconds)
+    // Cells after the name: ready, calls, offline, right, median.
+    const values = (await rows.evaluateAll(trs => trs.map(tr => tr.querySelectorAll('td')[4]?.textContent ?? ''))).map(seconds)
     expect(values).toEqual([...values].sort((a, b) => a - b))
     await median.getByRole('button').click()
     await expect.poll(() => median.getAttribute('aria-sort')).toBe('descending')
@@ -57,6 +58,27 @@ describe('the crew table (lead, desktop)', () => {
     expect(await page.getByText('The numbers of this chart, by day').count()).toBe(1)
     await shot(page, 'stats-person')
     await context.close()
+  })
+})
+
+describe('offline calls in the crew\'s standard (issue 14, item 2)', () => {
+  it('shows the offline column and the setting, off by default (product.md, "Offline"), on a phone and a desktop', async () => {
+    const crewId = await crewIdOf('lead@glint.demo')
+    for (const [viewport, name] of [[PHONE, 'phone'], [DESKTOP, 'desktop']] as const) {
+      const { context, page } = await newPage(browser, viewport)
+      await signIn(page, 'lead@glint.demo')
+      await page.goto(`/crews/${crewId}`)
+      const table = page.getByRole('table', { name: /Trainees of the crew/ })
+      await table.getByRole('columnheader', { name: /Offline/ }).waitFor()
+      expect(await page.getByText('Calls graded offline do not count.').count()).toBe(1)
+      await page.goto(`/crews/${crewId}/members`)
+      const box = page.getByRole('checkbox', { name: /Offline calls count toward readiness/ })
+      await box.waitFor()
+      expect(await box.isChecked()).toBe(false)
+      await box.scrollIntoViewIfNeeded()
+      await shot(page, `crew-standard-offline-${name}`)
+      await context.close()
+    }
   })
 })
 

@@ -36,9 +36,13 @@ describe('the demo decks', () => {
     for (const d of decks) expect(Object.keys(d).sort()).toEqual(['category', 'id', 'published', 'title'])
   })
 
-  it('GET /api/decks/[id] has api.md\'s shape, and image URLs name neither the type nor its id', async () => {
+  it('GET /api/decks/[id] has api.md\'s shape; rendering URLs only for the owner, and they name neither the type nor its id', async () => {
     const air = decks.find(d => d.title === AIR)!
-    const r = await trainee.get(`/api/decks/${air.id}`)
+    // api.md: deck details shown to trainees carry no variant URLs.
+    const seen = await trainee.get(`/api/decks/${air.id}`)
+    expect(seen.status).toBe(200)
+    for (const t of seen.body.targetTypes) for (const v of t.views) expect(v.variants).toEqual([])
+    const r = await instructor.get(`/api/decks/${air.id}`)
     expect(r.status).toBe(200)
     expect(Object.keys(r.body).sort()).toEqual(['id', 'settings', 'targetTypes', 'title'])
     expect(Object.keys(r.body.settings).sort()).toEqual(['answerMode', 'choiceCount', 'hesitationMs', 'minExposureMs', 'newPerDay', 'retention', 'windowMs'])
@@ -46,6 +50,7 @@ describe('the demo decks', () => {
       expect(Object.keys(t).sort()).toEqual(['affiliation', 'category', 'id', 'name', 'sizeM', 'views'])
       for (const v of t.views) {
         expect(Object.keys(v).sort()).toEqual(['aspect', 'id', 'variants'])
+        expect(v.variants.length).toBeGreaterThan(0)
         for (const x of v.variants) {
           expect(Object.keys(x).sort()).toEqual(['condition', 'url', 'width'])
           expect(x.url).toMatch(/^\/images\/[a-f0-9]{64}\.webp$/)

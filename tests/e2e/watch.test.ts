@@ -90,7 +90,8 @@ describe('POST /api/watches', () => {
     const keys = strings.filter(s => s.path.endsWith('(key)')).map(s => s.value)
     for (const k of ['answer', 'answerChoiceId', 'correct', 'targetTypeId', 'typeId', 'name']) expect(keys).not.toContain(k)
     for (const s of watch.sightings) {
-      expect(s.imageUrl).toMatch(/^\/images\/[0-9a-f]{64}\.webp$/)
+      // api.md: sighting images at per-sighting addresses, never the rendering's content hash.
+      expect(s.imageUrl).toBe(`/images/s/${s.id}.webp`)
       expect(s.maskUrl).toMatch(/^\/masks\/noise-\d\.webp$/)
       for (const c of s.choices) {
         expect(c.id).toMatch(/^[\w-]{22}$/)

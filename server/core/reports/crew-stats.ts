@@ -15,6 +15,8 @@ export interface CallRecord {
   targetTypeId: string
   calledTypeId: string | null
   anticipation: boolean
+  // graded on the phone offline, where the pack held the answer (the server decides: see calls.offline)
+  offline?: boolean
 }
 
 export interface WindowStats {

@@ -10,9 +10,11 @@ export interface ReadinessStandard {
   // calls needed on every (target type, aspect) pair of the deck
   minCallsPerTrack: number
   windowDays: number
+  // whether calls graded offline (the phone held the answers in the pack) count (product.md, "Offline")
+  offlineCounts: boolean
 }
 
-export const DEFAULT_STANDARD: Readonly<ReadinessStandard> = Object.freeze({ minAccuracy: 0.9, minCallsPerTrack: 2, windowDays: 14 })
+export const DEFAULT_STANDARD: Readonly<ReadinessStandard> = Object.freeze({ minAccuracy: 0.9, minCallsPerTrack: 2, windowDays: 14, offlineCounts: false })
 
 export interface TrackKey {
   targetTypeId: string
@@ -82,10 +84,10 @@ export interface ReadinessTally {
   counts: ReadonlyMap<string, number>
 }
 
-/** The tally of the calls in the last `days` days up to nowMs on the deck's target types. */
-function tallyCalls(calls: readonly CallRecord[], trackKeys: readonly TrackKey[], nowMs: number, days: number): ReadinessTally {
+/** The tally of the calls in the last `days` days up to nowMs on the deck's target types (offline ones only if they count). */
+function tallyCalls(calls: readonly CallRecord[], trackKeys: readonly TrackKey[], nowMs: number, days: number, offlineCounts: boolean): ReadinessTally {
   const deckTypes = new Set(trackKeys.map(k => k.targetTypeId))
-  const inWindow = callsSince(calls, nowMs, days).filter(c => deckTypes.has(c.targetTypeId))
+  const inWindow = callsSince(calls, nowMs, days).filter(c => deckTypes.has(c.targetTypeId) && (offlineCounts || !c.offline))
   const counts = new Map<string, number>()
   let right = 0
   for (const c of inWindow) {
@@ -100,11 +102,13 @@ function tallyCalls(calls: readonly CallRecord[], trackKeys: readonly TrackKey[]
  * Ready when, over the last windowDays days (calledAt >= nowMs - windowDays·86 400 000):
  * accuracy >= minAccuracy (exactly the mark is ready), the median latency of right calls
  * <= hesitationMs (exactly the limit is ready), and every (target type, aspect) pair of the
- * deck called at least minCallsPerTrack times. Calls of target types outside the deck are ignored.
+ * deck called at least minCallsPerTrack times. Calls of target types outside the deck are ignored,
+ * and so are calls graded offline unless the standard counts them.
  */
 export function readiness(input: ReadinessInput): Readiness {
   const standard: ReadinessStandard = { ...DEFAULT_STANDARD, ...input.standard }
-  return readinessOfTally(tallyCalls(input.calls, input.trackKeys, input.nowMs, standard.windowDays), input.trackKeys, standard, input.hesitationMs)
+  const tally = tallyCalls(input.calls, input.trackKeys, input.nowMs, standard.windowDays, standard.offlineCounts)
+  return readinessOfTally(tally, input.trackKeys, standard, input.hesitationMs)
 }
 
 /** Readiness from a window's tally (see readiness()); the crew table counts the tally in SQL. */

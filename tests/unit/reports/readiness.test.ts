@@ -110,3 +110,32 @@ describe('readiness at its boundaries (issue 5 standard)', () => {
     expect(r.ready).toBe(false)
   })
 })
+
+// product.md, "Offline": calls graded offline train and schedule as any other, and count toward
+// readiness only where the crew's standard says so (default: they do not). Issue 14, item 2.
+describe('calls graded offline', () => {
+  const offline = (calls: CallRecord[]) => calls.map(c => ({ ...c, offline: true }))
+
+  it('do not count by default: a standard met by offline calls alone is not met', () => {
+    const r = run(offline(spread(20, 0)))
+    expect(r.ready).toBe(false)
+    expect(r.calls).toBe(0)
+    expect(r.missing).toEqual(['no calls in the last 14 days', '4 target type/aspect pairs called fewer than 2 times in 14 days'])
+  })
+
+  it('count when the crew\'s standard says so', () => {
+    const r = readiness({ calls: offline(spread(20, 0)), trackKeys: KEYS, standard: { ...STANDARD, offlineCounts: true }, hesitationMs: HESITATION, nowMs: NOW })
+    expect(r.ready).toBe(true)
+    expect(r.calls).toBe(20)
+  })
+
+  it('by default leave the online calls to decide: 8 online right calls ready, 12 offline wrong ones ignored', () => {
+    const online = spread(8, 0)
+    const wrongOffline = offline(spread(12, 12))
+    expect(run([...online, ...wrongOffline]).ready).toBe(true)
+    // Counted, the 12 wrong calls take accuracy to 8 / 20 = 40 %.
+    const counted = readiness({ calls: [...online, ...wrongOffline], trackKeys: KEYS, standard: { ...STANDARD, offlineCounts: true }, hesitationMs: HESITATION, nowMs: NOW })
+    expect(counted.accuracy).toBe(8 / 20)
+    expect(counted.ready).toBe(false)
+  })
+})

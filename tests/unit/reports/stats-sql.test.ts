@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase } from '../../../server/database/client'
 import { DAY_MS, isRightCall } from '../../../server/core/reports/crew-stats'
 import type { CallRecord } from '../../../server/core/reports/crew-stats'
-import { PAIR_COUNTS_SQL, crewStatsOf, loadPersonCalls, packedSql, readinessOnDecks } from '../../../server/utils/stats'
+import { PAIR_COUNTS_SQL, crewStatsOf, loadPersonCalls, packedSql, personReportOf, readinessOnDecks } from '../../../server/utils/stats'
 import { digestDay, digestWeek } from '../../../server/utils/digests'
 
 const NOW = Date.UTC(2025, 5, 16, 12)
@@ -85,6 +85,8 @@ beforeAll(() => {
       n++
     }
   })
+  // One call in seven graded offline, so both readiness paths meet offline calls.
+  sqlite.prepare('UPDATE calls SET offline = 1 WHERE rowid % 7 = 0').run()
 })
 
 afterAll(() => {
@@ -130,9 +132,11 @@ describe('crew table SQL path', () => {
     for (const windowDays of [3, 14, 30, 90]) {
       for (const minAccuracy of [0.8, 0.9]) {
         for (const minCallsPerTrack of [1, 4]) {
-          sqlite.prepare('UPDATE crews SET min_accuracy = ?, min_calls_per_track = ?, window_days = ? WHERE id = \'crewaaaaaa\'')
-            .run(minAccuracy, minCallsPerTrack, windowDays)
-          const standard = { minAccuracy, minCallsPerTrack, windowDays }
+          // Offline calls counted under one of the two call minimums, so both settings are compared.
+          const offlineCounts = minCallsPerTrack === 4
+          sqlite.prepare('UPDATE crews SET min_accuracy = ?, min_calls_per_track = ?, window_days = ?, offline_counts = ? WHERE id = \'crewaaaaaa\'')
+            .run(minAccuracy, minCallsPerTrack, windowDays, offlineCounts ? 1 : 0)
+          const standard = { minAccuracy, minCallsPerTrack, windowDays, offlineCounts }
           for (const scope of [[decks[0]!], decks]) {
             const stats = crewStatsOf(sqlite, 'crewaaaaaa', { days: 30, deckId: scope.length === 1 ? scope[0]!.id : undefined }, NOW)
             for (const row of stats.rows) {
@@ -149,6 +153,84 @@ describe('crew table SQL path', () => {
     expect(checked).toBe(4 * 2 * 2 * 2 * people.length)
     // Both outcomes occur, so the comparison is not all one answer.
     expect(new Set(results)).toEqual(new Set(['true', 'false']))
+  })
+})
+
+// Issue 14, items 2 and 3, on a crew of its own using the unit deck (3 types x 2 aspects, 1.2 s limit):
+// product.md "Offline" (calls graded offline count toward readiness only where the standard says so,
+// default no) and "check" (a fixed qualification test, its own measure: its calls stay out of drill figures).
+describe('offline calls and check calls in the crew table', () => {
+  const CREW = 'crewcccccc'
+  const pairs = types.flatMap(t => ASPECTS.map(aspect => ({ t, aspect })))
+  beforeAll(() => {
+    sqlite.prepare('INSERT INTO crews (id, name) VALUES (?, \'Offline crew\')').run(CREW)
+    sqlite.prepare('INSERT INTO deck_crews (deck_id, crew_id) VALUES (\'deckaaaaaa\', ?)').run(CREW)
+    const call = sqlite.prepare(`INSERT INTO calls (id, sighting_id, user_id, deck_id, target_type_id, called_type_id, aspect, condition, correct, grade,
+      anticipation, latency_ms, called_at, received_at, offline, kind) VALUES (?, ?, ?, 'deckaaaaaa', ?, ?, ?, 'sunlit', ?, ?, 0, 500, ?, ?, ?, ?)`)
+    let n = 0
+    const add = (user: string, t: string, aspect: string, right: boolean, offline: boolean, kind: string) => {
+      const at = NOW - (1 + (n % 5)) * DAY_MS
+      call.run(`oc${n}`, `os${n}`, user, t, right ? t : types[(types.indexOf(t) + 1) % 3], aspect, right ? 1 : 0, right ? 'instant' : 'missed', at, at, offline ? 1 : 0, kind)
+      n++
+    }
+    for (const [user, name] of [['q1aaaaaaaa', 'Quill'], ['q2aaaaaaaa', 'Rook']] as const) {
+      sqlite.prepare('INSERT INTO users (id, email, name, password_hash) VALUES (?, ?, ?, \'x\')').run(user, `${user}@x.test`, name)
+      sqlite.prepare('INSERT INTO user_roles (user_id, role) VALUES (?, \'trainee\')').run(user)
+      sqlite.prepare('INSERT INTO memberships (crew_id, user_id) VALUES (?, ?)').run(CREW, user)
+    }
+    // Quill: every pair twice online and twice offline, all right; and 5 wrong calls in a check.
+    for (const { t, aspect } of pairs) {
+      for (let k = 0; k < 2; k++) add('q1aaaaaaaa', t, aspect, true, false, 'watch')
+      for (let k = 0; k < 2; k++) add('q1aaaaaaaa', t, aspect, true, true, 'watch')
+    }
+    for (let k = 0; k < 5; k++) add('q1aaaaaaaa', types[k % 3]!, 'beam', false, false, 'check')
+    // Rook: every pair three times, all offline and right.
+    for (const { t, aspect } of pairs) for (let k = 0; k < 3; k++) add('q2aaaaaaaa', t, aspect, true, true, 'watch')
+  })
+
+  const rowOf = (user: string) => crewStatsOf(sqlite, CREW, { days: 30, deckId: 'deckaaaaaa' }, NOW).rows.find(r => r.userId === user)!
+
+  it('counts check calls nowhere in the drill figures, and shows how many calls were offline', () => {
+    sqlite.prepare('UPDATE crews SET min_accuracy = 0.9, min_calls_per_track = 2, window_days = 14, offline_counts = 0 WHERE id = ?').run(CREW)
+    const quill = rowOf('q1aaaaaaaa')
+    // 24 drill calls (12 online, 12 offline); the 5 check calls are not among them.
+    expect(quill.calls).toBe(24)
+    expect(quill.offlineCalls).toBe(12)
+    expect(quill.accuracy).toBe(1)
+    // Counted, the 5 wrong check calls would take accuracy to 24 / 29 (82.8 %), under the 90 % mark.
+    expect(quill.ready).toBe(true)
+    expect(loadPersonCalls(sqlite, 'q1aaaaaaaa', ['deckaaaaaa'], 0, NOW)).toHaveLength(24)
+    const rook = rowOf('q2aaaaaaaa')
+    expect(rook.calls).toBe(18)
+    expect(rook.offlineCalls).toBe(18)
+  })
+
+  it('leaves offline calls out of readiness by default, and counts them when the standard says so', () => {
+    sqlite.prepare('UPDATE crews SET min_accuracy = 0.9, min_calls_per_track = 2, window_days = 14, offline_counts = 0 WHERE id = ?').run(CREW)
+    const rook = rowOf('q2aaaaaaaa')
+    expect(rook.ready).toBe(false)
+    expect(rook.missing).toEqual(['no calls in the last 14 days', '6 target type/aspect pairs called fewer than 2 times in 14 days'])
+    // Quill's 12 online calls meet the standard by themselves (2 a pair, all right, median 0.5 s).
+    expect(rowOf('q1aaaaaaaa').ready).toBe(true)
+    sqlite.prepare('UPDATE crews SET offline_counts = 1 WHERE id = ?').run(CREW)
+    expect(rowOf('q2aaaaaaaa')).toMatchObject({ ready: true, missing: [] })
+    // Quill with 3 a pair needed: 2 online a pair fall short; with the offline ones, 4 a pair suffice.
+    sqlite.prepare('UPDATE crews SET min_calls_per_track = 3 WHERE id = ?').run(CREW)
+    expect(rowOf('q1aaaaaaaa').ready).toBe(true)
+    sqlite.prepare('UPDATE crews SET offline_counts = 0 WHERE id = ?').run(CREW)
+    expect(rowOf('q1aaaaaaaa').missing).toEqual(['6 target type/aspect pairs called fewer than 3 times in 14 days'])
+  })
+
+  it('the person page reads the same readiness as the crew table', () => {
+    for (const offlineCounts of [0, 1]) {
+      sqlite.prepare('UPDATE crews SET min_calls_per_track = 2, offline_counts = ? WHERE id = ?').run(offlineCounts, CREW)
+      const report = personReportOf(sqlite, 'q2aaaaaaaa', 'q2aaaaaaaa', { days: 30, deckId: 'deckaaaaaa' }, NOW)
+      expect(report.readiness[0]!.ready).toBe(offlineCounts === 1)
+      expect(report.summary.calls).toBe(18)
+      const quill = personReportOf(sqlite, 'q1aaaaaaaa', 'q1aaaaaaaa', { days: 30, deckId: 'deckaaaaaa' }, NOW)
+      expect(quill.summary.calls).toBe(24)
+      expect(quill.confusions).toEqual([])
+    }
   })
 })
 

@@ -14,7 +14,7 @@ export default defineEventHandler(async (event) => {
   return {
     id: crew.id,
     name: crew.name,
-    standard: { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays },
+    standard: { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays, offlineCounts: crew.offlineCounts },
     members,
   }
 })

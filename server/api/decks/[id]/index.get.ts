@@ -2,6 +2,6 @@ import { IdParam } from '#shared/schemas/params'
 
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
-  const { deck } = await requireVisibleDeck(event, id)
-  return deckDetail(deck)
+  const { actor, deck } = await requireVisibleDeck(event, id)
+  return deckDetail(deck, actor)
 })

@@ -1,5 +1,7 @@
 // Dates in one style everywhere, in the person's locale (Intl): the browser's language, and on the
 // server the request's Accept-Language, kept in state so the page hydrates with the same text.
+import { relativeParts } from '#shared/utils/relative-time'
+
 const FALLBACK = 'en-GB'
 
 function pickLocale(tags: readonly string[]): string {
@@ -21,20 +23,6 @@ function fromHeader(header: string | undefined): string[] {
     const q = Number(params.find(p => p.trim().startsWith('q='))?.trim().slice(2) ?? 1)
     return { tag: tag!.trim(), q: Number.isFinite(q) ? q : 0, i }
   }).filter(x => x.tag && x.tag !== '*' && x.q > 0).sort((a, b) => b.q - a.q || a.i - b.i).map(x => x.tag)
-}
-
-const UNITS: [Intl.RelativeTimeFormatUnit, number][] = [
-  ['year', 365 * 86_400_000], ['month', 30 * 86_400_000], ['week', 7 * 86_400_000], ['day', 86_400_000],
-  ['hour', 3_600_000], ['minute', 60_000], ['second', 1000],
-]
-
-/** The largest unit of which the span holds at least one whole, rounded (a minute and under: "now"-style seconds). */
-export function relativeParts(ms: number, nowMs: number): { value: number, unit: Intl.RelativeTimeFormatUnit } {
-  const span = ms - nowMs
-  for (const [unit, size] of UNITS) {
-    if (Math.abs(span) >= size || unit === 'second') return { value: Math.round(span / size), unit }
-  }
-  return { value: 0, unit: 'second' }
 }
 
 export function useDates() {

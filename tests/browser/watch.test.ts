@@ -2,11 +2,10 @@
 // in the database afterwards, screenshots of a sighting, the feedback and the summary.
 import { randomBytes } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import type { Browser, Page } from 'playwright-core'
 import { launch, newPage, passIntroductions, shot } from '../support/browser'
 import { drillTrainee, ensureDrillFixture, FIXTURE_DECK_TITLE, publishedDecks, readDb, TRAINEE_PASSWORD, writeDb } from '../support/drill-fixture'
 import type { IssuedWatch, WatchPack } from '../../shared/types/drill'
-import type { Page } from 'playwright-core'
 
 const DAY = 86_400_000
 let browser: Browser

@@ -23,9 +23,9 @@ export function useWatchToday() {
 }
 
 /** The home card text for today's watch: the watch page's own words (workloadText), deck by deck. */
-export function watchCardText(today: WatchToday | null): string {
+export function watchCardText(today: WatchToday | null, relative?: (ms: number) => string): string {
   if (!today) return 'Your daily drill: timed flash sightings of your crew\'s decks.'
   if (!today.decks.length) return 'No deck is assigned to your crew yet.'
-  if (today.decks.length === 1) return workloadText(today.decks[0]!)
-  return today.decks.map(d => `${d.title}: ${workloadText(d)}`).join('. ')
+  if (today.decks.length === 1) return workloadText(today.decks[0]!, relative)
+  return today.decks.map(d => `${d.title}: ${workloadText(d, relative)}`).join('. ')
 }

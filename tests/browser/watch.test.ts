@@ -108,7 +108,7 @@ describe('the watch page at 390x844', () => {
         const w = window as unknown as { __shift: number, __during: number }
         w.__during = w.__shift
       })
-      await feedback.click()
+      await tapOn(page)
     }
     await page.getByTestId('watch-summary').waitFor()
     await shot(page, 'watch-summary')
@@ -155,6 +155,16 @@ async function openWatch(trainee: { id: string, email: string }, deckId: string)
   await page.goto('/watch')
   if (await page.locator('#watch-deck').count()) await page.selectOption('#watch-deck', deckId)
   return { context, page }
+}
+
+// Taps the reveal to go on (a tap in its first 400 ms counts as the end of the call's tap and is
+// ignored, so it is repeated until the reveal has gone).
+async function tapOn(page: Page) {
+  const feedback = page.getByTestId('feedback')
+  await expect.poll(async () => {
+    if (await feedback.count()) await feedback.click({ timeout: 2000 }).catch(() => {})
+    return feedback.count()
+  }, { timeout: 10_000 }).toBe(0)
 }
 
 // Is the element's box inside the viewport and its image decoded (a picture a person can see)?
@@ -227,7 +237,7 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     // No automatic advance by default: still there after 4 s (longer than any earlier feedback stayed).
     await page.waitForTimeout(4000)
     expect(await feedback.count()).toBe(1)
-    await feedback.click()
+    await tapOn(page)
 
     // A wrong call: what was called, and both pictures side by side with the features that differ.
     const b = await nextSighting()
@@ -244,13 +254,11 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     expect(boxes[0]!.x + boxes[0]!.width).toBeLessThanOrEqual(boxes[1]!.x + 1)
     await page.waitForTimeout(300)
     await shot(page, 'watch-reveal-wrong')
-    await feedback.click()
+    await tapOn(page)
 
     // The miss brings a re-show: "Sighting n of 10" keeps its total and counts the re-show apart.
-    await page.locator('[data-testid="introduction"], [data-testid="sighting-box"]').first().waitFor()
-    await expect.poll(() => page.getByTestId('watch-progress').textContent()).toMatch(/of 10/)
-    if (await page.getByTestId('watch-reshows').count()) expect(await page.getByTestId('watch-reshows').textContent()).toMatch(/1 re-show to come/)
-    expect(await page.getByTestId('watch-progress').textContent()).not.toMatch(/of 11/)
+    await nextSighting()
+    expect(await page.getByTestId('watch-progress').textContent()).toMatch(/Sighting 3 of 10\s*· 1 re-show to come/)
     await context.close()
   })
 

@@ -197,6 +197,13 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     for (const v of Object.values(first.features)) expect(await page.getByTestId('introduction-features').textContent()).toContain(v)
     await expect.poll(() => pictureOnScreen(page, 'introduction-picture')).toBe(true)
     expect(await page.getByTestId('introduction-look-alike').textContent()).toContain(first.lookAlike!.name)
+    // Beside it, with the features that tell them apart (the fixture's words: each feature whose words differ).
+    const [mine, theirs] = await Promise.all(['introduction-picture', 'introduction-look-alike'].map(id => page.getByTestId(id).boundingBox()))
+    expect(Math.abs(mine!.y - theirs!.y)).toBeLessThan(2)
+    const table = (await page.getByTestId('introduction-differences').textContent())!
+    for (const [k, v] of Object.entries(first.features)) {
+      if (first.lookAlike!.features[k] !== v) expect(table).toContain(v)
+    }
     await page.waitForTimeout(300)
     await shot(page, 'watch-introduction')
 
@@ -277,6 +284,7 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/Nothing due · practice of 10 sightings available/)
     // Relative time in the browser's locale (en-US here): Intl.RelativeTimeFormat's "in 8 days" (ECMA-402).
     expect(await page.getByTestId('watch-next-due').textContent()).toMatch(/Next due in 8 days/)
+    await shot(page, 'watch-practice-offer')
     await page.getByRole('button', { name: 'Start practice (10 sightings)' }).click()
     const box = page.getByTestId('sighting-box')
     await expect.poll(() => box.getAttribute('data-state'), { timeout: 10_000 }).toMatch(/shown|masked/)

@@ -3,7 +3,7 @@
 import { randomBytes } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { launch, newPage, passIntroductions, shot } from '../support/browser'
+import { DESKTOP, launch, newPage, passIntroductions, PHONE, shot } from '../support/browser'
 import { drillTrainee, ensureDrillFixture, FIXTURE_DECK_TITLE, publishedDecks, readDb, TRAINEE_PASSWORD, writeDb } from '../support/drill-fixture'
 import type { IssuedWatch, WatchPack } from '../../shared/types/drill'
 
@@ -206,6 +206,9 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     }
     await page.waitForTimeout(300)
     await shot(page, 'watch-introduction')
+    await page.setViewportSize(DESKTOP)
+    await shot(page, 'watch-introduction-desktop')
+    await page.setViewportSize(PHONE)
 
     // Read the introductions as they come; each sighting's track must have been introduced before it.
     const introduced = new Set<string>()
@@ -261,6 +264,9 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     expect(boxes[0]!.x + boxes[0]!.width).toBeLessThanOrEqual(boxes[1]!.x + 1)
     await page.waitForTimeout(300)
     await shot(page, 'watch-reveal-wrong')
+    await page.setViewportSize(DESKTOP)
+    await shot(page, 'watch-reveal-wrong-desktop')
+    await page.setViewportSize(PHONE)
     await tapOn(page)
 
     // The miss brings a re-show: "Sighting n of 10" keeps its total and counts the re-show apart.

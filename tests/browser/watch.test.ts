@@ -309,6 +309,13 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     expect(calls).toHaveLength(1)
     // Scheduled as an early review: the track's reps went from 3 to 4.
     expect(readDb(db => (db.prepare('SELECT reps FROM tracks WHERE id = ?').get(calls[0]!.t) as { reps: number }).reps)).toBe(4)
+
+    // The home page and the watch say the same about the deck: 9 of the practice's 10 left (issue 15 item 9).
+    await page.goto('/')
+    await expect.poll(() => page.getByText(/Fixture drill deck \(test\): 9 sightings left in today's watch/).count()).toBe(1)
+    await page.goto('/watch')
+    if (await page.locator('#watch-deck').count()) await page.selectOption('#watch-deck', fx.deckId)
+    await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/^\s*9 sightings left in today's watch\.\s*$/)
     await context.close()
   })
 })

@@ -77,6 +77,8 @@ seedInto(dir)
 // The day theme (the screenshots of this bench are not kept; night would only change colours).
 const db = new Database(env.NUXT_DATABASE_PATH!)
 db.prepare('UPDATE users SET night_mode = \'day\' WHERE email = ?').run(TRAINEE)
+// Every track of the trainee due now, so the watch holds timed sightings (the seeded history leaves few due today).
+db.prepare('UPDATE tracks SET due = ? WHERE user_id = (SELECT id FROM users WHERE email = ?)').run(Date.now() - 86_400_000, TRAINEE)
 db.close()
 const child = spawn(process.execPath, [entry], { env, stdio: ['ignore', 'ignore', 'inherit'] })
 const base = `http://127.0.0.1:${port}`
@@ -101,14 +103,14 @@ try {
   const firstSightingMs = await page.evaluate(() => new Promise<number>((resolve) => {
     const button = [...document.querySelectorAll('button')].find(b => /Start watch|Go on with the watch/.test(b.textContent ?? ''))!
     const t0 = performance.now()
-    const done = () => {
+    // (no named functions in here: tsx would wrap them in a helper the page does not have)
+    const observer = new MutationObserver(() => {
       const box = document.querySelector('[data-testid=sighting-box]')
       if (box?.getAttribute('data-state') === 'shown' || box?.getAttribute('data-state') === 'masked') {
         observer.disconnect()
         resolve(performance.now() - t0)
       }
-    }
-    const observer = new MutationObserver(done)
+    })
     observer.observe(document.body, { subtree: true, childList: true, attributes: true, attributeFilter: ['data-state'] })
     button.click()
   }))

@@ -256,6 +256,11 @@ export function runPerson(person: Person, policy: Policy, setup: RunSetup): Pers
     }
     sightings += used
     clock += 60_000
+    // readiness reads only the standard's window: older calls can go
+    const from = clock - standard.windowDays * DAY_MS
+    let keep = 0
+    while (keep < calls.length && calls[keep]!.calledAt < from) keep++
+    if (keep) calls.splice(0, keep)
     const r = readiness({ calls, trackKeys, standard, hesitationMs: deck.hesitationMs, nowMs: clock })
     if (r.ready) return { ready: true, sightings, days: day + 1, ...retentionTest(learner, items.length, clock, setup) }
   }

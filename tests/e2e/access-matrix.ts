@@ -89,6 +89,15 @@ export const MATRIX: Record<string, Entry> = {
     anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
     otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
   },
+  // The crew's fitted scheduling parameters: the same people as the crew reports; POST starts a fit.
+  'GET /api/crews/:crew/fsrs': {
+    anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
+    otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
+  },
+  'POST /api/crews/:crew/fsrs': {
+    anon: 401, trainee: 403, instructor: 'pass', lead: 'pass', admin: 'pass',
+    otherCrew: { instructor: 'pass', lead: 403, admin: 'pass' },
+  },
   // An unknown deck: 404 to those who could own one, 403 to the rest.
   'GET /api/decks/:deck/confusions': { anon: 401, trainee: 403, instructor: 404, lead: 403, admin: 404 },
   // An unknown person: 404 to the admin only; nobody else learns whether the id exists.

@@ -4,14 +4,15 @@
 import { computeParameters, evaluateWithTimeSeriesSplits, FSRSBinding, FSRSBindingItem, FSRSBindingReview } from '@open-spaced-repetition/binding'
 import { default_w, forgetting_curve, Rating } from 'ts-fsrs'
 import type { CallGrade } from '../../../shared/utils/grade'
+import type { CalibrationBin } from '../../../shared/types/fit'
 import { gradeToRating, newTrackState, reviewTrack, retrievability } from './fsrs'
 import type { TrackState } from './fsrs'
 
 const DAY_MS = 86_400_000
 
-// Calls needed before a fit is tried: the optimizer's time-series split needs several splits of
-// reviews made on later days than the first (design value).
-export const MIN_FIT_CALLS = 1000
+// Usable calls (after a track's first, with a review on a later day in its history) needed before a
+// fit is tried: the optimizer's time-series split needs several splits of them (design value).
+export const MIN_FIT_CALLS = 400
 
 export interface ReviewLog {
   trackId: string
@@ -42,10 +43,10 @@ export function byTrack(logs: readonly ReviewLog[]): ReviewLog[][] {
 /**
  * The optimizer's items: for every review after a track's first, the track's history up to and
  * including it; delta_t is whole UTC days since the previous review (0 for the first), as fsrs-rs
- * expects.
+ * expects. Only items whose last review is on a later day than the one before it.
  */
 export function toItems(tracks: readonly ReviewLog[][]): FSRSBindingItem[] {
-  const items: FSRSBindingItem[] = []
+  const items: { at: number, item: FSRSBindingItem }[] = []
   for (const list of tracks) {
     const reviews: FSRSBindingReview[] = []
     let previousDay: number | null = null
@@ -53,10 +54,13 @@ export function toItems(tracks: readonly ReviewLog[][]): FSRSBindingItem[] {
       const day = Math.floor(log.calledAt / DAY_MS)
       reviews.push(new FSRSBindingReview(gradeToRating(log.grade), previousDay === null ? 0 : day - previousDay))
       previousDay = day
-      if (reviews.length >= 2) items.push(new FSRSBindingItem(reviews.slice()))
+      // fsrs-rs predicts a review after a gap: an item ending on the previous review's day is refused
+      // (and one with no later-day review at all aborts the process)
+      if (reviews.length >= 2 && reviews[reviews.length - 1]!.deltaT > 0) items.push({ at: log.calledAt, item: new FSRSBindingItem(reviews.slice()) })
     }
   }
-  return items
+  // in the order of the calls: the time-series split trains on earlier items and scores later ones
+  return items.sort((a, b) => a.at - b.at).map(x => x.item)
 }
 
 /** Adopt the fitted set only when it predicts unseen calls better: lower held-out log loss. */
@@ -67,14 +71,14 @@ export function shouldAdopt(defaults: Evaluation, fitted: Evaluation): boolean {
 /**
  * Fits a crew's parameters. Too few calls: no fit, and how many more are needed. Otherwise the
  * fitted set and both figures: the fitted procedure by the package's time-series-split evaluation
- * (trained on earlier splits, scored on the later one), the defaults scored on every item (they
- * were fitted on none of them).
+ * (trained on earlier splits, scored on the later one), the defaults on the same later calls.
  */
 export async function fitParameters(logs: readonly ReviewLog[], onProgress?: (share: number) => void): Promise<FitOutcome> {
   const tracks = byTrack(logs)
   const calls = logs.length
-  if (calls < MIN_FIT_CALLS) return { status: 'too-few', calls, tracks: tracks.length, needed: MIN_FIT_CALLS - calls }
   const items = toItems(tracks)
+  // each item is one usable call (a later-day review with its history); the threshold counts those
+  if (items.length < MIN_FIT_CALLS) return { status: 'too-few', calls, tracks: tracks.length, needed: MIN_FIT_CALLS - items.length }
   const options = { enableShortTerm: true, numRelearningSteps: 1 }
   const weights = await computeParameters(items, {
     ...options,
@@ -84,7 +88,9 @@ export async function fitParameters(logs: readonly ReviewLog[], onProgress?: (sh
   })
   const held = await evaluateWithTimeSeriesSplits(items, options)
   onProgress?.(0.95)
-  const base = new FSRSBinding([...default_w]).evaluate(items)
+  // The defaults scored on the calls the splits score: all but the first sixth, if fsrs-rs splits
+  // as scikit-learn's TimeSeriesSplit(5) does (from memory); they were fitted on none of them.
+  const base = new FSRSBinding([...default_w]).evaluate(items.slice(Math.floor(items.length / 6)))
   const fitted = { logLoss: held.logLoss, rmse: held.rmseBins }
   const defaults = { logLoss: base.logLoss, rmse: base.rmseBins }
   return { status: 'done', calls, tracks: tracks.length, weights, fitted, defaults, adopted: shouldAdopt(defaults, fitted) }
@@ -96,12 +102,7 @@ export function firstCurve(weights: readonly number[], days: readonly number[]):
   return days.map(t => forgetting_curve([...weights], t, s0))
 }
 
-export interface CalibrationBin {
-  // mean predicted recall of the calls in the bin, share of them right, how many
-  predicted: number
-  observed: number
-  count: number
-}
+export type { CalibrationBin }
 
 /**
  * Calibration: every call after a track's first, replayed through the scheduler with a parameter

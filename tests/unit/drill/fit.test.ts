@@ -35,8 +35,16 @@ function synthetic(tracks: number, perTrack: number, seed = 7): ReviewLog[] {
 
 describe('fitting FSRS parameters to a crew\'s calls', () => {
   it('refuses too few calls, stays on the defaults and says how many more are needed', async () => {
+    // 10 tracks of 10 calls on different days: 9 usable calls a track (each after the track's first)
     const out = await fitParameters(synthetic(10, 10))
-    expect(out).toEqual({ status: 'too-few', calls: 100, tracks: 10, needed: MIN_FIT_CALLS - 100 })
+    expect(out).toEqual({ status: 'too-few', calls: 100, tracks: 10, needed: MIN_FIT_CALLS - 90 })
+  })
+
+  it('counts no call whose history stays on one day (fsrs-rs needs a later-day review) and refuses, not crashes', async () => {
+    const day = Date.UTC(2026, 0, 5, 9)
+    const logs = Array.from({ length: 2000 }, (_, i) => ({ trackId: `t${i % 50}`, calledAt: day + i * 1000, grade: 'sure' as const }))
+    expect(toItems(byTrack(logs))).toHaveLength(0)
+    expect(await fitParameters(logs)).toEqual({ status: 'too-few', calls: 2000, tracks: 50, needed: MIN_FIT_CALLS })
   })
 
   it('adopts a fitted set only when its held-out log loss is lower (equal or higher keeps the defaults)', () => {

@@ -4,7 +4,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { crewIdOf, freshPerson } from '../support/client'
-import { launch, PHONE, shot, signIn } from '../support/browser'
+import { launch, passIntroductions, PHONE, shot, signIn } from '../support/browser'
 
 let browser: Browser
 
@@ -49,6 +49,7 @@ describe('the phone at 360 px and 390 px', () => {
     }
     await page.goto('/watch')
     await page.getByRole('button', { name: /Start watch/ }).click()
+    await passIntroductions(page)
     await page.getByTestId('sighting-box').waitFor()
     expect(await smallTargets(page), 'a running sighting').toEqual([])
     expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true)
@@ -66,6 +67,7 @@ describe('the phone at 360 px and 390 px', () => {
     await page.goto('/watch')
     expect(await page.evaluate(() => document.documentElement.classList.contains('night'))).toBe(false)
     await page.getByRole('button', { name: /Start watch/ }).click()
+    await passIntroductions(page)
     const box = page.getByTestId('sighting-box')
     await expect.poll(() => box.getAttribute('data-state'), { timeout: 10_000 }).toMatch(/shown/)
     await page.waitForTimeout(300)
@@ -83,6 +85,7 @@ describe('the phone at 360 px and 390 px', () => {
     await page.goto('/watch')
     expect(await page.evaluate(() => document.documentElement.classList.contains('night'))).toBe(true)
     await page.getByRole('button', { name: /Go on with the watch|Start watch/ }).click()
+    await passIntroductions(page)
     await expect.poll(() => box.getAttribute('data-state'), { timeout: 10_000 }).toMatch(/shown/)
     await page.waitForTimeout(300)
     // Only the chrome turns red: no filter or blend on the image or anything around it.

@@ -83,14 +83,25 @@ export default defineNuxtConfig({
     },
     workbox: {
       navigateFallback: null,
-      // json: Nuxt's build manifest (_nuxt/builds), read when a page opens with no connection.
-      globPatterns: ['**/*.{js,css,woff2,woff,svg,png,json}'],
+      // Control from the first visit, so a page opened once reloads with no connection.
+      clientsClaim: true,
+      skipWaiting: true,
+      // json: Nuxt's build manifest (_nuxt/builds), read when a page opens with no connection;
+      // offline/index.html (precached as /offline): what a page never kept says with no connection.
+      globPatterns: ['**/*.{js,css,woff2,woff,svg,png,json}', 'offline/index.html'],
       cleanupOutdatedCaches: true,
       runtimeCaching: [
         {
           urlPattern: ({ request, url }) => request.mode === 'navigate' && !url.pathname.startsWith('/api/'),
           handler: 'NetworkFirst',
-          options: { cacheName: 'glint-pages', networkTimeoutSeconds: 4, expiration: { maxEntries: 40 } },
+          options: {
+            cacheName: 'glint-pages',
+            networkTimeoutSeconds: 4,
+            expiration: { maxEntries: 40 },
+            // Pages kept by useOfflinePages were fetched, not navigated to: another Accept header.
+            matchOptions: { ignoreVary: true },
+            plugins: [{ handlerDidError: async () => (await caches.match('/offline', { ignoreSearch: true })) ?? Response.error() }],
+          },
         },
         {
           urlPattern: ({ url }) => url.pathname.startsWith('/images/') || url.pathname.startsWith('/masks/'),

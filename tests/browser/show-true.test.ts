@@ -4,7 +4,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { crewIdOf, freshPerson } from '../support/client'
-import { launch, PHONE, shot, signIn } from '../support/browser'
+import { launch, passIntroductions, PHONE, shot, signIn } from '../support/browser'
 import { contrastRatio, decodePng, decodeWebp, grey, iou, linear, otsu, relativeLuminance, resampleGrey, side } from '../support/pixels'
 
 let browser: Browser
@@ -30,9 +30,15 @@ async function trainee(page: Page, nightMode: 'day' | 'night') {
   return p
 }
 
-async function startWatch(page: Page) {
+// A new trainee meets each type in an introduction before its first sighting: read past them.
+async function startWatch(page: Page, beforeIntroductions?: () => Promise<void>) {
   await page.goto('/watch')
   await page.getByRole('button', { name: /Start watch|Go on with the watch/ }).click()
+  if (beforeIntroductions) {
+    await page.getByTestId('introduction').waitFor()
+    await beforeIntroductions()
+  }
+  await passIntroductions(page)
   await page.getByTestId('sighting-box').waitFor()
 }
 
@@ -54,6 +60,7 @@ async function goOn(page: Page) {
   await page.waitForTimeout(500)
   if (await feedback.count()) await feedback.click({ timeout: 2000 }).catch(() => {})
   await feedback.waitFor({ state: 'detached' })
+  await passIntroductions(page)
 }
 
 describe('item 4: the silhouette on screen is the rendering\'s own (390x844)', () => {
@@ -129,21 +136,38 @@ async function nightPixels(page: Page, name: string) {
 }
 
 describe('item 6: night stays dark (390x844)', () => {
-  it('a sighting, the noise mask and the feedback card: no pixel above luminance 0.05, green and blue at most a tenth of red', async () => {
+  it('an introduction, a sighting, the noise mask and the reveal: no pixel above luminance 0.05, green and blue at most a tenth of red', async () => {
     const { context, page } = await phone()
     await trainee(page, 'night')
-    await startWatch(page)
+    await startWatch(page, async () => {
+      const intro = await nightPixels(page, 'night-introduction')
+      expect(intro.maxL, 'introduction').toBeLessThanOrEqual(0.05)
+      expect(intro.bad, `introduction: worst green/blue share ${intro.worstShare}`).toBe(0)
+    })
     expect(await page.evaluate(() => document.documentElement.classList.contains('night'))).toBe(true)
     await shownSighting(page)
     const sighting = await nightPixels(page, 'night-sighting')
     expect(sighting.maxL, 'sighting').toBeLessThanOrEqual(0.05)
     expect(sighting.bad, `sighting: worst green/blue share ${sighting.worstShare}`).toBe(0)
 
+    // The noise mask follows a timed exposure; a new trainee's first sightings stay up until the call,
+    // so the mask the page holds for this sighting is put up here, as the page does when time runs out.
+    await page.getByTestId('sighting-mask').evaluate((el) => {
+      el.style.visibility = 'visible'
+    })
+    const mask = await nightPixels(page, 'night-mask')
+    expect(mask.maxL, 'mask').toBeLessThanOrEqual(0.05)
+    expect(mask.bad, `mask: worst green/blue share ${mask.worstShare}`).toBe(0)
+    await page.getByTestId('sighting-mask').evaluate((el) => {
+      el.style.visibility = 'hidden'
+    })
+
     await callAny(page)
-    await expect.poll(() => page.getByTestId('sighting-mask').evaluate(el => getComputedStyle(el).visibility)).toBe('visible')
-    const masked = await nightPixels(page, 'night-mask-feedback')
-    expect(masked.maxL, 'mask and feedback').toBeLessThanOrEqual(0.05)
-    expect(masked.bad, `mask and feedback: worst green/blue share ${masked.worstShare}`).toBe(0)
+    await page.getByTestId('reveal-pictures').locator('img').first().waitFor()
+    await page.waitForTimeout(500)
+    const revealed = await nightPixels(page, 'night-reveal')
+    expect(revealed.maxL, 'reveal').toBeLessThanOrEqual(0.05)
+    expect(revealed.bad, `reveal: worst green/blue share ${revealed.worstShare}`).toBe(0)
 
     // Secondary text ("Tap to go on") against the card behind it: the WCAG 2.2 contrast ratio within
     // the theme, each luminance taken relative to the theme's brightest allowed level 0.05 (the dim

@@ -37,6 +37,9 @@ export default defineNuxtConfig({
     },
   },
   buildDir: tag ? `.nuxt-${tag}` : '.nuxt',
+  // Other pages' code is fetched when a link is touched or focused, not when it scrolls into view:
+  // on a phone's slow link the watch's own pictures come first. Offline pages come from the service worker.
+  experimental: { defaults: { nuxtLink: { prefetchOn: { visibility: false, interaction: true } } } },
   compatibilityDate: '2025-07-15',
   nitro: {
     output: tag ? { dir: `.output-${tag}` } : undefined,

@@ -3,6 +3,7 @@
 // Offline: the watch and its pack are kept in IndexedDB; calls made with no connection are graded
 // here with the shared gradeCall, queued with their own time and sent in order when it returns.
 import { defineStore } from 'pinia'
+import { watch as observe } from 'vue'
 import type { CallResult, Introduction, IssuedSighting, IssuedWatch, PackSighting, WatchPack } from '#shared/types/drill'
 import type { CallInput } from '#shared/schemas/drill'
 import { gradeCall } from '#shared/utils/grade'
@@ -54,6 +55,8 @@ export const useWatchStore = defineStore('watch', () => {
 
   const current = computed(() => queue.value[index.value] ?? null)
   const lastResult = computed(() => results.value[results.value.length - 1] ?? null)
+  // A sighting runs only once its picture and mask are decoded (its exposure is timed from the first frame).
+  const currentReady = computed(() => !!current.value && images.value.has(current.value.imageUrl) && images.value.has(current.value.maskUrl))
   const introductions = computed<Introduction[]>(() => watch.value?.introductions ?? pack?.introductions ?? [])
   // The introduction to read before the current sighting, if one is left.
   const currentIntro = computed(() => {
@@ -113,11 +116,11 @@ export const useWatchStore = defineStore('watch', () => {
     }
   }
 
+  // Each image is usable as soon as it is decoded, so a sighting waits for its own pictures only.
   async function preload(urls: string[]) {
-    const map = new Map(images.value)
     loaded.value = 0
     await Promise.all([...new Set(urls)].map(async (url) => {
-      if (map.has(url)) {
+      if (images.value.has(url)) {
         loaded.value++
         return
       }
@@ -125,16 +128,28 @@ export const useWatchStore = defineStore('watch', () => {
       el.decoding = 'async'
       el.src = url
       await el.decode()
-      map.set(url, { el, background: url.startsWith('/masks/') ? '#000' : backgroundOf(el) })
+      images.value = new Map(images.value).set(url, { el, background: url.startsWith('/masks/') ? '#000' : backgroundOf(el) })
       loaded.value++
     }))
-    images.value = map
   }
 
   // Each image fetched once, so the service worker keeps it for a watch with no connection.
   function warm(urls: string[]) {
     return Promise.allSettled([...new Set(urls)].map(u => fetch(u, { credentials: 'same-origin' })))
   }
+
+  // A sighting reached before the background loading brought its pictures loads them now.
+  observe([current, phase], async () => {
+    const s = current.value
+    if (!import.meta.client || !s || phase.value !== 'running' || currentReady.value) return
+    try {
+      await preload([s.imageUrl, s.maskUrl])
+    }
+    catch {
+      error.value = 'The pictures of this sighting did not load. Check the connection, then open the watch again: your calls so far are kept.'
+      phase.value = 'error'
+    }
+  })
 
   async function persist() {
     const w = watch.value
@@ -202,13 +217,21 @@ export const useWatchStore = defineStore('watch', () => {
         phase.value = 'summary'
         return
       }
-      pack = w.id ? await useWatchApi().pack(w.id).catch(() => stored?.pack ?? null) : null
+      // The pack (for calls with no connection) comes while the first pictures load; the watch
+      // starts as soon as what it shows first is decoded, and the rest follows in queue order.
+      const packed = w.id ? useWatchApi().pack(w.id).catch(() => stored?.pack ?? null) : Promise.resolve(null)
       const urls = queue.value.flatMap(s => [s.imageUrl, s.maskUrl])
       const intros = introUrls(w.introductions ?? [])
-      await Promise.all([preload([...urls, ...intros]), warm([...urls, ...intros])])
-      void warm(revealUrls(pack))
-      await persist()
+      const intro = currentIntro.value
+      await preload(intro ? introUrls([intro]) : urls.slice(0, 2))
       enterSighting()
+      void (async () => {
+        pack = await packed
+        await persist()
+        await preload([...urls, ...intros]).catch(() => {})
+        // Fetched once more after they are shown, so a service worker that took control late keeps them too.
+        await warm([...urls, ...intros, ...revealUrls(pack)])
+      })()
     }
     catch (e) {
       error.value = errorMessage(e)
@@ -443,7 +466,7 @@ export const useWatchStore = defineStore('watch', () => {
   }
 
   return {
-    watch, queue, index, results, voided, phase, error, loaded, images, current, lastResult, waiting, syncing, notices,
+    watch, queue, index, results, voided, phase, error, loaded, images, current, currentReady, lastResult, waiting, syncing, notices,
     currentIntro, progress, attach, start, resume, call, sync, online, dismiss, next, voidCurrent, reset, seeIntroduction,
   }
 })

@@ -228,6 +228,8 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
       await expect.poll(() => box.getAttribute('data-state'), { timeout: 10_000 }).toMatch(/shown|masked/)
       const s = byId.get((await box.getAttribute('data-sighting-id'))!)!
       expect(introduced.has(`${s.answer.name}|${aspectOf(s.id)}`), s.answer.name).toBe(true)
+      // A person's reaction: a tap sooner than the anticipation floor would be graded a guess.
+      await page.waitForTimeout(400)
       return s
     }
 
@@ -237,6 +239,7 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     await page.getByRole('button', { name: a.choices.find(c => c.id === a.answer.choiceId)!.label, exact: true }).tap()
     const feedback = page.getByTestId('feedback')
     await feedback.waitFor()
+    expect(await feedback.getAttribute('data-grade')).not.toBe('missed')
     await expect.poll(() => pictureOnScreen(page, 'reveal-picture-answer')).toBe(true)
     expect(await page.getByTestId('feedback-words').textContent()).toContain(a.answer.name)
     expect(await textOnScreen(page, 'feedback-words')).toBe(true)

@@ -113,4 +113,6 @@ export const MATRIX: Record<string, Entry> = {
   'POST /api/checks/attempts/:attempt/finish': { anon: 401, trainee: 'ok', instructor: 403, lead: 403, admin: 403 },
   'POST /api/checks/attempts/:attempt/reset': { anon: 401, trainee: 403, instructor: 403, lead: 'ok', admin: 403 },
   'POST /api/checks/attempts/:attempt/sign-off': { anon: 401, trainee: 403, instructor: 403, lead: 'ok', admin: 403 },
+  // Withdrawing a sign-off: the same lead rule; the attempt is signed off first (issue 17, item 11).
+  'POST /api/checks/attempts/:attempt/withdraw-sign-off': { anon: 401, trainee: 403, instructor: 403, lead: 'ok', admin: 403 },
 }

@@ -138,6 +138,13 @@ const REQUESTS: Record<string, Build> = {
   'POST /api/checks/attempts/:attempt/finish': s => ({ params: { attempt: s.attempts.finish } }),
   'POST /api/checks/attempts/:attempt/reset': s => ({ params: { attempt: s.attempts.reset } }),
   'POST /api/checks/attempts/:attempt/sign-off': s => ({ params: { attempt: s.attempts.signOff } }),
+  'POST /api/checks/attempts/:attempt/withdraw-sign-off': async (s) => {
+    const check = (await ok(s.instructor.client.post('/api/checks', { ...CHECK, deckId: s.deck, title: unique('Matrix signed check') }), 'check')).id as string
+    const attempt = (await ok(s.trainee.client.post(`/api/checks/${check}/attempts`), 'attempt')).attemptId as string
+    await ok(s.trainee.client.post(`/api/checks/attempts/${attempt}/finish`), 'finish')
+    writeDb(db => db.prepare('UPDATE check_attempts SET signed_off_by = ?, signed_off_at = ? WHERE id = ?').run(s.instructor.id, Date.now(), attempt))
+    return { params: { attempt }, body: { reason: 'Signed off by mistake (access matrix).' } }
+  },
 }
 
 const defaults = (s: Side): Record<string, string> => ({

@@ -60,7 +60,7 @@ describe('content security policy in Chromium', () => {
     expect((await page.request.post('/api/crews', { data: { name: `Audit crew ${Date.now().toString(36)}` } })).status()).toBe(201)
     await page.goto('/admin/audit')
     await page.getByRole('heading', { name: 'Audit log' }).waitFor()
-    const select = page.getByLabel('Action')
+    const select = page.getByLabel('Action', { exact: true })
     const options = await select.locator('option').allTextContents()
     expect(options[0]!.trim()).toMatch(/^Every action/)
     expect(options.map(o => o.trim())).toContain('crew.create (1)')

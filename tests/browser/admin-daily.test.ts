@@ -2,7 +2,7 @@
 // settings) would; each result is read back from the database file or from the screen.
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { DESKTOP, launch, newPage, shot, signIn } from '../support/browser'
+import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
 import { Client, linkFromOutbox, signedIn } from '../support/client'
 import { TRAINEE_PASSWORD, directPerson, readDb } from '../support/drill-fixture'
 
@@ -58,6 +58,14 @@ describe('an admin at desktop size (issue 17, items 1 and 2)', () => {
     expect(await rows.first().locator('dd').allTextContents()).toContain(name)
     expect(await page.locator('tbody').textContent()).not.toMatch(/[{}]/)
     await shot(page, 'admin-audit-search')
+    // The same screens on a phone: nothing wider than the screen but the tables' own scrolling boxes.
+    await page.setViewportSize(PHONE)
+    await expect.poll(() => page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true)
+    await shot(page, 'admin-audit-search-phone')
+    await page.goto('/admin')
+    await page.getByRole('table', { name: 'People' }).waitFor()
+    expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true)
+    await shot(page, 'admin-people-phone')
     await context.close()
   })
 
@@ -130,6 +138,9 @@ describe('everyone\'s own settings (issue 17, item 3)', () => {
     await page.getByRole('button', { name: 'Change password' }).click()
     await page.getByText('Password changed. Your other devices are signed out.').waitFor()
     await shot(page, 'settings-name-password')
+    await page.setViewportSize(PHONE)
+    await shot(page, 'settings-name-password-phone')
+    await page.setViewportSize(DESKTOP)
     expect((await elsewhere.get('/api/auth/me')).status).toBe(401)
     await page.reload()
     await page.getByRole('heading', { name: 'Settings' }).waitFor()

@@ -3,9 +3,8 @@
 import { readFileSync } from 'node:fs'
 import { parse } from 'csv-parse/sync'
 import type { Browser } from 'playwright-core'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { PHONE, launch, shot, signIn } from '../support/browser'
-import { inject } from 'vitest'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
+import { DESKTOP, PHONE, launch, shot, signIn } from '../support/browser'
 import { signedIn } from '../support/client'
 import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
 
@@ -33,6 +32,8 @@ describe('a lead on a phone', () => {
     const table = page.getByRole('table', { name: /Trainees of the crew/ })
     const rows = table.locator('tbody tr', { has: page.locator('th[scope=row]') })
     await expect.poll(() => rows.count()).toBeGreaterThan(0)
+    // Only the table's own box scrolls sideways, never the page.
+    expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true)
     // The columns a lead reads first come right after the name (design value, issue 17 item 9).
     const heads = (await table.locator('thead th').allTextContents()).map(t => t.replace(/[▲▼↕]/g, '').trim())
     expect(heads.slice(0, 5)).toEqual(['Name', 'Ready', 'Right', 'Median', 'Last 7 days'])
@@ -83,6 +84,8 @@ describe('a lead on a phone', () => {
       expect(cells[1]).toBe(rec['Right (%)'] ? `${rec['Right (%)']}%` : '—')
       expect(cells[2]).toBe(rec['Median of right calls (s)'] ? `${rec['Median of right calls (s)']} s` : '—')
     }
+    await page.setViewportSize(DESKTOP)
+    await shot(page, 'lead-crew-table-desktop')
     await context.close()
   })
 
@@ -129,6 +132,8 @@ describe('a lead on a phone', () => {
     expect(row()).toMatchObject({ signed_off_at: null, withdraw_reason: 'Remark was for another trainee.' })
     expect(readDb(db => db.prepare(`SELECT count(*) FROM audit_log WHERE action = 'check.sign-off.withdraw' AND subject_id = ?`).pluck().get(issued.attemptId))).toBe(1)
     await shot(page, 'lead-checks-withdrawn-phone')
+    await page.setViewportSize(DESKTOP)
+    await shot(page, 'lead-checks-desktop')
     await context.close()
   })
 
@@ -155,6 +160,8 @@ describe('a lead on a phone', () => {
     expect(optOut()).toBe(0)
     await page.getByText(/The next one goes out/).waitFor()
     await shot(page, 'lead-digest-preview-phone')
+    await page.setViewportSize(DESKTOP)
+    await shot(page, 'lead-digest-preview-desktop')
     expect(start).toBe(0)
     await context.close()
   })

@@ -102,7 +102,7 @@ describe('an admin at desktop size (issue 17, items 1 and 2)', () => {
     await page.getByRole('button', { name: `Withdraw the invitation to ${email}` }).click()
     await page.getByText(`Invitation to ${email} withdrawn.`).waitFor()
     expect(rowsOf()).toEqual(['replaced', 'revoked'])
-    expect(await waiting.getByRole('rowheader', { name: email }).count()).toBe(0)
+    await expect.poll(() => waiting.getByRole('rowheader', { name: email }).count()).toBe(0)
     await context.close()
   })
 

@@ -106,6 +106,24 @@ describe('an admin at desktop size (issue 17, items 1 and 2)', () => {
     await context.close()
   })
 
+  it('inviting an address that has an account offers to add that person to the crew, and does', async () => {
+    const p = await directPerson(['trainee'], null, false)
+    const name = nameOf(p.id)
+    const skerrow = crewNamed('Skerrow Point Station')
+    const { context, page } = await newPage(browser, DESKTOP)
+    await signIn(page, 'admin@glint.demo')
+    await page.goto(`/crews/${skerrow}/members`)
+    await page.getByLabel('E-mail of the person to invite').fill(p.email)
+    await page.getByRole('button', { name: 'Send invitation' }).click()
+    await page.getByText('That address already has a Glint account.', { exact: false }).waitFor()
+    await page.getByRole('button', { name: `Add ${name} to this crew` }).click()
+    await page.getByText(`${name} is now in this crew.`).waitFor()
+    expect(crewsOf(p.id)).toEqual([skerrow])
+    expect(readDb(db => db.prepare(`SELECT count(*) FROM invitations WHERE email = ?`).pluck().get(p.email))).toBe(0)
+    await shot(page, 'admin-crew-add-existing')
+    await context.close()
+  })
+
   it('opening a used invitation link says so before any form', async () => {
     const admin = await signedIn('admin@glint.demo')
     const email = `browser-used-${Date.now().toString(36)}@glint.test`

@@ -20,6 +20,8 @@ export const users = sqliteTable('users', {
   sessionVersion: integer('session_version').notNull().default(1),
   nightMode: text('night_mode').notNull().default('auto'), // auto | day | night
   remindersOptOut: integer('reminders_opt_out', { mode: 'boolean' }).notNull().default(false),
+  // A lead's own choice to stop the weekly crew digest.
+  digestOptOut: integer('digest_opt_out', { mode: 'boolean' }).notNull().default(false),
   ...timestamps,
 }, t => [uniqueIndex('users_email_uq').on(t.email)])
 
@@ -55,8 +57,11 @@ export const invitations = sqliteTable('invitations', {
   invitedBy: text('invited_by').notNull().references(() => users.id),
   expiresAt: integer('expires_at').notNull(),
   usedAt: integer('used_at'),
+  // Set when an admin withdraws the link or a newer invitation to the same address replaces it.
+  revokedAt: integer('revoked_at'),
+  revokedReason: text('revoked_reason'), // revoked | replaced
   createdAt: integer('created_at').notNull().default(now),
-}, t => [uniqueIndex('invitations_token_uq').on(t.tokenHash)])
+}, t => [uniqueIndex('invitations_token_uq').on(t.tokenHash), index('invitations_email_idx').on(t.email)])
 
 export const passwordResets = sqliteTable('password_resets', {
   id: text('id').primaryKey(),
@@ -326,6 +331,11 @@ export const checkAttempts = sqliteTable('check_attempts', {
   passed: integer('passed', { mode: 'boolean' }),
   signedOffBy: text('signed_off_by').references(() => users.id),
   signedOffAt: integer('signed_off_at'),
+  signOffRemark: text('sign_off_remark'),
+  // The last withdrawn sign-off: who, when and why (the audit log keeps every one).
+  withdrawnBy: text('withdrawn_by').references(() => users.id),
+  withdrawnAt: integer('withdrawn_at'),
+  withdrawReason: text('withdraw_reason'),
   startedAt: integer('started_at').notNull(),
   finishedAt: integer('finished_at'),
 }, t => [index('check_attempts_user_idx').on(t.userId, t.checkId)])

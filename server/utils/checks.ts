@@ -64,13 +64,19 @@ interface AttemptRow {
   passed: number | null
   signedOffBy: string | null
   signedOffAt: number | null
+  signerName: string | null
+  signOffRemark: string | null
+  withdrawnAt: number | null
+  withdrawnByName: string | null
+  withdrawReason: string | null
   startedAt: number
   finishedAt: number | null
 }
 
 const ATTEMPT_SELECT = `SELECT a.id, a.check_id AS checkId, a.user_id AS userId, u.name AS personName, a.watch_id AS watchId, a.status,
-  a.score, a.passed, a.signed_off_by AS signedOffBy, a.signed_off_at AS signedOffAt, a.started_at AS startedAt, a.finished_at AS finishedAt
-  FROM check_attempts a JOIN users u ON u.id = a.user_id`
+  a.score, a.passed, a.signed_off_by AS signedOffBy, a.signed_off_at AS signedOffAt, a.started_at AS startedAt, a.finished_at AS finishedAt,
+  so.name AS signerName, a.sign_off_remark AS signOffRemark, a.withdrawn_at AS withdrawnAt, wd.name AS withdrawnByName, a.withdraw_reason AS withdrawReason
+  FROM check_attempts a JOIN users u ON u.id = a.user_id LEFT JOIN users so ON so.id = a.signed_off_by LEFT JOIN users wd ON wd.id = a.withdrawn_by`
 
 function toView(r: CheckRow): CheckView {
   return {
@@ -84,8 +90,13 @@ function toSummary(r: AttemptRow): AttemptSummary {
   return {
     id: r.id, checkId: r.checkId, userId: r.userId, personName: r.personName, status: r.status, score: r.score,
     passed: r.passed === null ? null : r.passed === 1, startedAt: r.startedAt, finishedAt: r.finishedAt,
-    signedOffBy: r.signedOffBy, signedOffAt: r.signedOffAt,
+    signedOffBy: r.signedOffBy, signedOffAt: r.signedOffAt, signerName: r.signerName, signOffRemark: r.signOffRemark,
+    withdrawn: withdrawnOf(r),
   }
+}
+
+function withdrawnOf(r: AttemptRow) {
+  return r.withdrawnAt ? { name: r.withdrawnByName ?? '', at: r.withdrawnAt, reason: r.withdrawReason ?? '' } : null
 }
 
 function checkRow(sqlite: Database, id: string) {
@@ -235,12 +246,18 @@ export function listChecks(sqlite: Database, actor: Actor): CheckLists {
       AND c.deck_id IN (SELECT deck_id FROM deck_crews WHERE crew_id = ?) ORDER BY c.created_at DESC`)
     const attempts = sqlite.prepare(`${ATTEMPT_SELECT} WHERE a.check_id = ?
       AND a.user_id IN (SELECT user_id FROM memberships WHERE crew_id = ?) ORDER BY a.started_at DESC`)
+    // The crew's trainees with no attempt that counts (running or finished): reset ones must take it again.
+    const notTaken = sqlite.prepare(`SELECT u.id AS userId, u.name FROM memberships m JOIN users u ON u.id = m.user_id
+      WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee')
+      AND NOT EXISTS (SELECT 1 FROM check_attempts a WHERE a.check_id = ? AND a.user_id = u.id AND a.status != 'reset')
+      ORDER BY u.name COLLATE NOCASE`)
     out.crews = crewRows.map((crew): CrewChecks => ({
       crewId: crew.id,
       crewName: crew.name,
       checks: (ofCrew.all(crew.id) as CheckRow[]).map(c => ({
         ...toView(c),
         attemptsOfCrew: (attempts.all(c.id, crew.id) as AttemptRow[]).map(toSummary),
+        notTaken: notTaken.all(crew.id, c.id) as { userId: string, name: string }[],
       })),
     }))
   }
@@ -494,7 +511,8 @@ export function checkResult(sqlite: Database, attemptId: string): CheckResult {
     right: rows.filter(r => r.correct === 1).length,
     score: a.score,
     passed: a.passed === null ? null : a.passed === 1,
-    signedOff: a.signedOffBy && a.signedOffAt ? { by: a.signedOffBy, name: signer?.name ?? '', at: a.signedOffAt } : null,
+    signedOff: a.signedOffBy && a.signedOffAt ? { by: a.signedOffBy, name: signer?.name ?? '', at: a.signedOffAt, remark: a.signOffRemark } : null,
+    withdrawn: withdrawnOf(a),
     items: rows.map(r => ({
       position: r.position,
       targetTypeName: r.targetTypeName,
@@ -529,13 +547,24 @@ export function resetCheckAttempt(sqlite: Database, actor: Actor, attemptId: str
   }).immediate()
 }
 
-/** The lead signs off a finished attempt, once. */
-export function signOffCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now()): AttemptSummary {
+/** The lead signs off a finished attempt, once, with an optional remark. */
+export function signOffCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now(), remark: string | null = null): AttemptSummary {
   return sqlite.transaction(() => {
     const a = requireLeadOf(sqlite, actor, attemptId)
     if (a.status !== 'finished') throw fail(409, 'Only a finished attempt can be signed off.')
     if (a.signedOffAt) throw fail(409, 'This attempt is already signed off.')
-    sqlite.prepare('UPDATE check_attempts SET signed_off_by = ?, signed_off_at = ? WHERE id = ?').run(actor.id, nowMs, attemptId)
+    sqlite.prepare('UPDATE check_attempts SET signed_off_by = ?, signed_off_at = ?, sign_off_remark = ? WHERE id = ?').run(actor.id, nowMs, remark || null, attemptId)
     return toSummary(attemptRow(sqlite, attemptId)!)
+  }).immediate()
+}
+
+/** A lead withdraws a sign-off with a reason; the attempt can then be signed off again or reset. */
+export function withdrawSignOff(sqlite: Database, actor: Actor, attemptId: string, reason: string, nowMs = Date.now()): { before: AttemptSummary, after: AttemptSummary } {
+  return sqlite.transaction(() => {
+    const a = requireLeadOf(sqlite, actor, attemptId)
+    if (!a.signedOffAt) throw fail(409, 'This attempt is not signed off, so there is nothing to withdraw.')
+    sqlite.prepare(`UPDATE check_attempts SET signed_off_by = NULL, signed_off_at = NULL, sign_off_remark = NULL,
+      withdrawn_by = ?, withdrawn_at = ?, withdraw_reason = ? WHERE id = ?`).run(actor.id, nowMs, reason, attemptId)
+    return { before: toSummary(a), after: toSummary(attemptRow(sqlite, attemptId)!) }
   }).immediate()
 }

@@ -53,47 +53,62 @@ function claimer(sqlite: Database, kind: DigestKind, actorId: string | null) {
 
 interface DeckRow { id: string, title: string, hesitationMs: number }
 
-/** The weekly digest of the week before nowMs to every lead of every crew. */
+interface CrewRow { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number, offlineCounts: number }
+
+// The statements a weekly digest reads, prepared once per run.
+function digestReader(sqlite: Database) {
+  const decksOf = sqlite.prepare(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
+    WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`)
+  const traineesOf = sqlite.prepare(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
+    WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee') ORDER BY u.name`)
+  const keysOf = sqlite.prepare(`SELECT DISTINCT v.target_type_id AS targetTypeId, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id = ?`)
+  const lastCall = sqlite.prepare(`SELECT called_at FROM calls WHERE user_id = ? AND kind = 'watch' AND called_at < ? AND deck_id IN (SELECT value FROM json_each(?))
+    ORDER BY called_at DESC LIMIT 1`).pluck()
+  // One crew's digest of the week [weekStart, weekEnd), counting calls made before `asOf`.
+  return (crew: CrewRow, weekStart: number, weekEnd: number, base: string, asOf = weekEnd) => {
+    const decks = decksOf.all(crew.id) as DeckRow[]
+    const deckIds = decks.map(d => d.id)
+    const keys = new Map(decks.map(d => [d.id, keysOf.all(d.id) as { targetTypeId: string, aspect: string }[]]))
+    const standard = { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays, offlineCounts: crew.offlineCounts === 1 }
+    const until = Math.min(asOf, weekEnd)
+    const people: DigestPerson[] = (traineesOf.all(crew.id) as { id: string, name: string }[]).map((t) => {
+      const calls = loadPersonCalls(sqlite, t.id, deckIds, weekStart - crew.windowDays * DAY_MS, until - 1)
+      const weekAgo = calls.filter(c => c.calledAt <= weekStart)
+      return {
+        name: t.name,
+        readyNow: readinessOnDecks(calls, decks, keys, standard, until).ready,
+        readyWeekAgo: readinessOnDecks(weekAgo, decks, keys, standard, weekStart).ready,
+        accuracyNow: windowStats(calls, until, crew.windowDays).accuracy,
+        accuracyWeekAgo: windowStats(weekAgo, weekStart, crew.windowDays).accuracy,
+        lastCallAt: deckIds.length ? (lastCall.get(t.id, until, JSON.stringify(deckIds)) as number | undefined) ?? null : null,
+      }
+    })
+    return weeklyLeadDigest({ crewName: crew.name, people, weekStart, weekEnd, crewUrl: `${base}/crews/${crew.id}` })
+  }
+}
+
+const CREWS_SQL = `SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
+    offline_counts AS offlineCounts FROM crews`
+
+/** The weekly digest of the week before nowMs to every lead of every crew who has not turned it off. */
 export async function runWeeklyDigests(nowMs: number, opts: DigestOptions = {}): Promise<DigestRunResult> {
   const sqlite = useSqlite()
   const { weekStart, weekEnd, period } = digestWeek(nowMs)
   const base = opts.baseUrl ?? appUrl()
   const claim = claimer(sqlite, 'weekly', opts.actorId ?? null)
-  const crews = sqlite.prepare(`SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
-    offline_counts AS offlineCounts FROM crews ORDER BY name`)
-    .all() as { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number, offlineCounts: number }[]
-  const decksOf = sqlite.prepare(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
-    WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`)
-  const membersWith = sqlite.prepare(`SELECT u.id, u.name, u.email FROM memberships m JOIN users u ON u.id = m.user_id
-    WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = ?) ORDER BY u.name`)
-  const keysOf = sqlite.prepare(`SELECT DISTINCT v.target_type_id AS targetTypeId, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id = ?`)
-  const lastCall = sqlite.prepare(`SELECT called_at FROM calls WHERE user_id = ? AND kind = 'watch' AND called_at < ? AND deck_id IN (SELECT value FROM json_each(?))
-    ORDER BY called_at DESC LIMIT 1`).pluck()
+  const crews = sqlite.prepare(`${CREWS_SQL} ORDER BY name`).all() as CrewRow[]
+  const leadsOf = sqlite.prepare(`SELECT u.id, u.name, u.email FROM memberships m JOIN users u ON u.id = m.user_id
+    WHERE m.crew_id = ? AND u.disabled = 0 AND u.digest_opt_out = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'lead') ORDER BY u.name`)
+  const digestOf = digestReader(sqlite)
 
   const result: DigestRunResult = { kind: 'weekly', period, sent: 0, alreadySent: 0, skipped: 0 }
   for (const crew of crews) {
-    const leads = membersWith.all(crew.id, 'lead') as { id: string, name: string, email: string }[]
+    const leads = leadsOf.all(crew.id) as { id: string, name: string, email: string }[]
     if (!leads.length) {
       result.skipped++
       continue
     }
-    const decks = decksOf.all(crew.id) as DeckRow[]
-    const deckIds = decks.map(d => d.id)
-    const keys = new Map(decks.map(d => [d.id, keysOf.all(d.id) as { targetTypeId: string, aspect: string }[]]))
-    const standard = { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays, offlineCounts: crew.offlineCounts === 1 }
-    const people: DigestPerson[] = (membersWith.all(crew.id, 'trainee') as { id: string, name: string }[]).map((t) => {
-      const calls = loadPersonCalls(sqlite, t.id, deckIds, weekStart - crew.windowDays * DAY_MS, weekEnd - 1)
-      const weekAgo = calls.filter(c => c.calledAt <= weekStart)
-      return {
-        name: t.name,
-        readyNow: readinessOnDecks(calls, decks, keys, standard, weekEnd).ready,
-        readyWeekAgo: readinessOnDecks(weekAgo, decks, keys, standard, weekStart).ready,
-        accuracyNow: windowStats(calls, weekEnd, crew.windowDays).accuracy,
-        accuracyWeekAgo: windowStats(weekAgo, weekStart, crew.windowDays).accuracy,
-        lastCallAt: deckIds.length ? (lastCall.get(t.id, weekEnd, JSON.stringify(deckIds)) as number | undefined) ?? null : null,
-      }
-    })
-    const digest = weeklyLeadDigest({ crewName: crew.name, people, weekStart, weekEnd, crewUrl: `${base}/crews/${crew.id}` })
+    const digest = digestOf(crew, weekStart, weekEnd, base)
     for (const lead of leads) {
       if (!claim('crew', crew.id, period, lead.id)) {
         result.alreadySent++
@@ -104,6 +119,36 @@ export async function runWeeklyDigests(nowMs: number, opts: DigestOptions = {}):
     }
   }
   return result
+}
+
+export interface DigestPreview {
+  optedOut: boolean
+  // when the next weekly digest is sent (the schedule: Mondays 06:00 UTC) and the week it covers
+  sendsAt: number
+  weekStart: number
+  weekEnd: number
+  crews: { crewId: string, crewName: string, subject: string, text: string }[]
+}
+
+/** The next weekly digest a lead would get, for each crew they lead, with the calls made so far this week. */
+export function previewWeeklyDigest(leadId: string, crewIds: string[], nowMs: number, base: string): DigestPreview {
+  const sqlite = useSqlite()
+  // The run on the coming Monday covers the week now is in.
+  const { weekStart, weekEnd } = digestWeek(nowMs + 7 * DAY_MS)
+  const sendsAt = weekEnd + 6 * 60 * 60 * 1000
+  const optedOut = (sqlite.prepare('SELECT digest_opt_out FROM users WHERE id = ?').pluck().get(leadId) as number) === 1
+  const crews = sqlite.prepare(`${CREWS_SQL} WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name`).all(JSON.stringify(crewIds)) as CrewRow[]
+  const digestOf = digestReader(sqlite)
+  return {
+    optedOut,
+    sendsAt,
+    weekStart,
+    weekEnd,
+    crews: crews.map((crew) => {
+      const d = digestOf(crew, weekStart, weekEnd, base, nowMs)
+      return { crewId: crew.id, crewName: crew.name, subject: d.subject, text: d.text }
+    }),
+  }
 }
 
 /** The daily reminder for nowMs's day to every trainee with tracks due who has not opted out. */

@@ -12,6 +12,8 @@ import { readiness, readinessOfTally, trackKeyOf } from '../core/reports/readine
 import type { Readiness, ReadinessStandard, ReadinessTally, TrackKey } from '../core/reports/readiness'
 import type { CallGrade } from '../../shared/utils/grade'
 import { quantileSorted, rollingMedian, sortedCopy } from '../../shared/utils/statistics'
+import { localTimeText, percentText, secondsText } from '../../shared/utils/format'
+import { trendVerdict } from '../../shared/utils/trend'
 import type {
   BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PersonReport, TrendFigures,
 } from '../../shared/types/stats'
@@ -463,17 +465,27 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
   }
 }
 
-export const CREW_CSV_COLUMNS = [
-  'userId', 'name', 'calls', 'offlineCalls', 'accuracy', 'medianMs', 'p90Ms', 'ready',
-  'accuracy7', 'medianMs7', 'accuracy30', 'medianMs30', 'lastWatchAt', 'tracksDue', 'missing',
-] as const
+/** The CSV's column names: what each holds and in which unit. */
+export function crewCsvColumns(timeZone: string): string[] {
+  return [
+    'Name', 'Ready', 'Right (%)', 'Median of right calls (s)', '90th percentile of right calls (s)', 'Calls', 'Calls graded offline',
+    'Right, last 7 days (%)', 'Median, last 7 days (s)', 'Trend, last 7 days', 'Right, last 30 days (%)', 'Median, last 30 days (s)', 'Trend, last 30 days',
+    `Last watch (${timeZone})`, 'Tracks due', 'Not ready because', 'Person id',
+  ]
+}
 
-/** The crew table flattened for CSV: numbers unformatted, empty for no value, times in ISO 8601. */
-export function crewStatsRecords(stats: CrewStats): (string | number | boolean | null)[][] {
+/**
+ * The crew table flattened for CSV, written as the table writes it: shares in whole percent (one
+ * decimal near a mark), latencies in seconds with two decimals, times in the reader's time zone,
+ * yes/no for ready, the trend's one verdict; empty for no value.
+ */
+export function crewStatsRecords(stats: CrewStats, timeZone: string): (string | number | null)[][] {
+  const pct = (x: number | null) => (x === null ? null : percentText(x))
+  const sec = (x: number | null) => (x === null ? null : secondsText(x))
   return stats.rows.map(r => [
-    r.userId, r.name, r.calls, r.offlineCalls, r.accuracy, r.medianMs, r.p90Ms, r.ready,
-    r.trend7.accuracy, r.trend7.medianMs, r.trend30.accuracy, r.trend30.medianMs,
-    r.lastWatchAt === null ? null : new Date(r.lastWatchAt).toISOString(), r.tracksDue, r.missing.join('; '),
+    r.name, r.ready ? 'yes' : 'no', pct(r.accuracy), sec(r.medianMs), sec(r.p90Ms), r.calls, r.offlineCalls,
+    pct(r.trend7.accuracy), sec(r.trend7.medianMs), trendVerdict(r.trend7), pct(r.trend30.accuracy), sec(r.trend30.medianMs), trendVerdict(r.trend30),
+    r.lastWatchAt === null ? null : localTimeText(r.lastWatchAt, timeZone), r.tracksDue, r.missing.join('; '), r.userId,
   ])
 }
 

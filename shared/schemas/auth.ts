@@ -48,6 +48,8 @@ export const UserPatch = z.object({
 }).strict()
 
 export const PrefsPatch = z.object({
+  name: PersonName.optional(),
+  digestOptOut: z.boolean().optional(),
   nightMode: z.enum(['auto', 'day', 'night']).optional(),
   remindersOptOut: z.boolean().optional(),
 }).strict()

@@ -30,6 +30,15 @@ const checkFields = {
 
 export const CheckBody = z.object({ deckId: Id, ...checkFields }).strict()
 export const CheckPatch = z.object(checkFields).partial().strict()
+
+// A lead's sign-off may carry a remark; withdrawing one needs a reason (issue 17, item 11).
+export const SignOffBody = z.object({
+  remark: z.string().trim().max(500, 'Keep the remark to 500 characters.').optional(),
+}).strict()
+export const WithdrawSignOffBody = z.object({
+  reason: z.string({ message: 'Give the reason for withdrawing the sign-off.' }).trim()
+    .min(3, 'Give the reason for withdrawing the sign-off (at least 3 characters).').max(500, 'Keep the reason to 500 characters.'),
+}).strict()
   .refine(b => Object.keys(b).length > 0, { message: 'Send at least one field to change.' })
 
 export type CheckInput = z.infer<typeof CheckBody>
@@ -64,6 +73,10 @@ export interface AttemptSummary {
   finishedAt: number | null
   signedOffBy: string | null
   signedOffAt: number | null
+  signerName: string | null
+  signOffRemark: string | null
+  // the last withdrawn sign-off, if any
+  withdrawn: { name: string, at: number, reason: string } | null
 }
 
 // A trainee's view of a check: the newest attempt's status ('none' before the first one).
@@ -74,7 +87,8 @@ export interface CheckToTake extends CheckView {
   passed: boolean | null
 }
 
-export interface CrewChecks { crewId: string, crewName: string, checks: (CheckView & { attemptsOfCrew: AttemptSummary[] })[] }
+// notTaken: the crew's trainees with no running or finished attempt (never taken, or reset).
+export interface CrewChecks { crewId: string, crewName: string, checks: (CheckView & { attemptsOfCrew: AttemptSummary[], notTaken: { userId: string, name: string }[] })[] }
 
 export interface CheckLists {
   // the checks the instructor defined (an admin: every check)
@@ -119,6 +133,7 @@ export interface CheckResult {
   right: number
   score: number | null
   passed: boolean | null
-  signedOff: { by: string, name: string, at: number } | null
+  signedOff: { by: string, name: string, at: number, remark: string | null } | null
+  withdrawn: { name: string, at: number, reason: string } | null
   items: CheckResultItem[]
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { isTimeZone } from '../utils/format'
 import { ASPECTS, CONDITIONS } from '../utils/conditions'
 import { Id } from './auth'
 
@@ -19,6 +20,12 @@ export const StatsQuery = z.object({
   days: StatsDays,
   aspect: z.preprocess(blankToUndefined, z.enum(ASPECTS, { message: `Choose an aspect: ${ASPECTS.join(', ')}.` }).optional()),
   condition: z.preprocess(blankToUndefined, z.enum(CONDITIONS, { message: `Choose a condition: ${CONDITIONS.join(', ')}.` }).optional()),
+})
+
+// The CSV adds the reader's time zone (IANA name, e.g. Europe/Lisbon) for its times; UTC when left out.
+export const StatsCsvQuery = StatsQuery.extend({
+  tz: z.preprocess(blankToUndefined, z.string().max(64, 'A time zone name has at most 64 characters.')
+    .refine(isTimeZone, 'Unknown time zone: give an IANA name such as Europe/Lisbon.').optional()),
 })
 
 export const ConfusionsQuery = z.object({

@@ -58,16 +58,25 @@ export const MATRIX: Record<string, Entry> = {
   'POST /api/auth/logout': signedIn,
   'GET /api/auth/me': signedIn,
   'PATCH /api/auth/me': signedIn,
+  // Everyone changes their own password (issue 17, item 3); the empty body is a 400.
+  'POST /api/auth/password': signedIn,
   'POST /api/auth/reset-request': anyone,
   'POST /api/auth/reset': anyone,
   // Leads and instructors invite trainees into their own crews; an admin into any crew.
   'POST /api/invites': { anon: 401, trainee: 403, instructor: 'ok', lead: 'ok', admin: 'ok', other: { instructor: 403, lead: 403, admin: 'ok' } },
   'GET /api/invites/preview': anyone,
+  // Waiting invitations: listed, sent again and withdrawn by admins (issue 17, item 2).
+  'GET /api/invites': adminOnly,
+  'POST /api/invites/:invite/resend': { ...adminOnly, admin: 'ok', other: { admin: 'ok' } },
+  'DELETE /api/invites/:invite': { ...adminOnly, admin: 'ok', other: { admin: 'ok' } },
   'POST /api/invites/accept': anyone,
   'GET /api/outbox': adminOnly,
   'GET /api/admin/users': adminOnly,
   'PATCH /api/admin/users/:user': { ...adminOnly, admin: 'ok', other: { admin: 'ok' } },
   'GET /api/admin/audit': adminOnly,
+  'GET /api/admin/audit/actions': adminOnly,
+  // Setting a person's crews (add, move) is an admin's act, like adding a member (issue 17, item 1).
+  'PUT /api/admin/users/:user/crews': { ...adminOnly, admin: 'ok', other: { admin: 'ok' } },
   'GET /api/crews': signedIn,
   'POST /api/crews': adminOnly,
   'GET /api/crews/:crew': { anon: 401, trainee: 403, instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
@@ -83,6 +92,8 @@ export const MATRIX: Record<string, Entry> = {
   // Own crew's person: the trainee is that person; another crew's person is refused to all but the admin.
   'GET /api/people/:user': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
   'POST /api/digests/run': adminOnly,
+  // A lead's own preview of the next weekly digest (issue 17, item 13).
+  'GET /api/digests/preview': { anon: 401, trainee: 403, instructor: 403, lead: 'pass', admin: 403 },
   'GET /api/scan/drills': signedIn,
   'POST /api/scan/drills': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 'pass' },
   'PATCH /api/scan/drills/:drill': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 'ok', other: { admin: 'ok' } },
@@ -102,4 +113,6 @@ export const MATRIX: Record<string, Entry> = {
   'POST /api/checks/attempts/:attempt/finish': { anon: 401, trainee: 'ok', instructor: 403, lead: 403, admin: 403 },
   'POST /api/checks/attempts/:attempt/reset': { anon: 401, trainee: 403, instructor: 403, lead: 'ok', admin: 403 },
   'POST /api/checks/attempts/:attempt/sign-off': { anon: 401, trainee: 403, instructor: 403, lead: 'ok', admin: 403 },
+  // Withdrawing a sign-off: the same lead rule; the attempt is signed off first (issue 17, item 11).
+  'POST /api/checks/attempts/:attempt/withdraw-sign-off': { anon: 401, trainee: 403, instructor: 403, lead: 'ok', admin: 403 },
 }

@@ -79,6 +79,11 @@ async function buildSide(crewName: string, tag: string, tint: number): Promise<S
   }
 }
 
+// A waiting invitation into the side's crew, sent by its instructor.
+const invitation = async (s: Side) => (await ok(s.instructor.client.post('/api/invites', {
+  email: `${unique('matrix-wait').replace(/\W/g, '-')}@glint.test`, role: 'trainee', crewId: s.crew,
+}), 'invitation')).id as string
+
 interface Call { params?: Record<string, string>, body?: unknown, query?: string }
 type Build = (s: Side) => Call | Promise<Call>
 
@@ -113,6 +118,9 @@ const REQUESTS: Record<string, Build> = {
   'POST /api/sightings/:sighting/void': s => ({ params: { sighting: s.sightings[1]! } }),
   'POST /api/invites': s => ({ body: { email: `${unique('matrix').replace(/\W/g, '-')}@glint.test`, role: 'trainee', crewId: s.crew } }),
   'PATCH /api/admin/users/:user': s => ({ params: { user: s.trainee.id }, body: { roles: ['trainee'] } }),
+  'PUT /api/admin/users/:user/crews': s => ({ params: { user: s.trainee.id }, body: { crewIds: [s.crew] } }),
+  'POST /api/invites/:invite/resend': async s => ({ params: { invite: await invitation(s) } }),
+  'DELETE /api/invites/:invite': async s => ({ params: { invite: await invitation(s) } }),
   'PATCH /api/crews/:crew': s => ({ params: { crew: s.crew }, body: { minAccuracy: s.minAccuracy } }),
   'POST /api/crews/:crew/members': s => ({ params: { crew: s.crew }, body: { userId: s.trainee.id } }),
   'DELETE /api/crews/:crew/members/:user': async s => ({ params: { crew: s.crew, user: (await directPerson(['trainee'], s.crew)).id } }),
@@ -130,6 +138,13 @@ const REQUESTS: Record<string, Build> = {
   'POST /api/checks/attempts/:attempt/finish': s => ({ params: { attempt: s.attempts.finish } }),
   'POST /api/checks/attempts/:attempt/reset': s => ({ params: { attempt: s.attempts.reset } }),
   'POST /api/checks/attempts/:attempt/sign-off': s => ({ params: { attempt: s.attempts.signOff } }),
+  'POST /api/checks/attempts/:attempt/withdraw-sign-off': async (s) => {
+    const check = (await ok(s.instructor.client.post('/api/checks', { ...CHECK, deckId: s.deck, title: unique('Matrix signed check') }), 'check')).id as string
+    const attempt = (await ok(s.trainee.client.post(`/api/checks/${check}/attempts`), 'attempt')).attemptId as string
+    await ok(s.trainee.client.post(`/api/checks/attempts/${attempt}/finish`), 'finish')
+    writeDb(db => db.prepare('UPDATE check_attempts SET signed_off_by = ?, signed_off_at = ? WHERE id = ?').run(s.instructor.id, Date.now(), attempt))
+    return { params: { attempt }, body: { reason: 'Signed off by mistake (access matrix).' } }
+  },
 }
 
 const defaults = (s: Side): Record<string, string> => ({

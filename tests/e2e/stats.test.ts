@@ -98,29 +98,49 @@ describe('GET /api/crews/[id]/stats', () => {
 })
 
 describe('GET /api/crews/[id]/stats.csv', () => {
-  it('parses back (csv-parse) to the same numbers as the JSON, with a header row and an attachment', async () => {
+  // Issue 17, item 12: the numbers as the table shows them (percent, seconds with two decimals,
+  // rounded half away from zero as Number.prototype.toFixed does, ECMA-262 §21.1.3.3), named
+  // columns with units, times in the reader's time zone (IANA tz database: Pacific/Auckland is
+  // UTC+13 in December, daylight time).
+  it('parses back (csv-parse) to the table\'s numbers, with named columns, units and local times', async () => {
     const [json, csv] = await Promise.all([
       fx.lead.client.get(`/api/crews/${fx.crewId}/stats`),
-      fx.lead.client.get(`/api/crews/${fx.crewId}/stats.csv`),
+      fx.lead.client.get(`/api/crews/${fx.crewId}/stats.csv?tz=Pacific/Auckland`),
     ])
     expect(csv.status).toBe(200)
     expect(csv.headers.get('content-type')).toBe('text/csv; charset=utf-8')
     expect(csv.headers.get('content-disposition')).toMatch(/^attachment; filename=".+\.csv"$/)
-    const records = parse(csv.text, { columns: true }) as Record<string, string>[]
+    const records = parse(csv.text, { columns: true, bom: true }) as Record<string, string>[]
     expect(records).toHaveLength(json.body.rows.length)
-    const num = (s: string) => (s === '' ? null : Number(s))
-    for (const row of json.body.rows) {
-      const rec = records.find(x => x.userId === row.userId)!
-      expect(rec.name).toBe(row.name)
-      expect(num(rec.calls!)).toBe(row.calls)
-      expect(num(rec.accuracy!)).toBe(row.accuracy)
-      expect(num(rec.medianMs!)).toBe(row.medianMs)
-      expect(num(rec.p90Ms!)).toBe(row.p90Ms)
-      expect(rec.ready).toBe(String(row.ready))
-      expect(num(rec.medianMs7!)).toBe(row.trend7.medianMs)
-      expect(num(rec.tracksDue!)).toBe(row.tracksDue)
-      expect(rec.missing).toBe(row.missing.join('; '))
+    expect(Object.keys(records[0]!)).toContain('Median of right calls (s)')
+    expect(Object.keys(records[0]!)).toContain('Last watch (Pacific/Auckland)')
+    const sec = (ms: number | null) => (ms === null ? '' : (Math.round(ms / 10) / 100).toFixed(2))
+    const pctClose = (text: string, share: number | null) => {
+      if (share === null) return expect(text).toBe('')
+      // Whole percent, or one decimal near a mark: within 0.1 point of the share.
+      expect(Math.abs(Number(text) - share * 100)).toBeLessThanOrEqual(0.1)
+      expect(text).toMatch(/^\d+(\.\d)?$/)
     }
+    for (const row of json.body.rows) {
+      const rec = records.find(x => x['Person id'] === row.userId)!
+      expect(rec.Name).toBe(row.name)
+      expect(Number(rec.Calls)).toBe(row.calls)
+      pctClose(rec['Right (%)']!, row.accuracy)
+      expect(rec['Median of right calls (s)']).toBe(sec(row.medianMs))
+      expect(rec['90th percentile of right calls (s)']).toBe(sec(row.p90Ms))
+      expect(rec.Ready).toBe(row.ready ? 'yes' : 'no')
+      expect(rec['Median, last 7 days (s)']).toBe(sec(row.trend7.medianMs))
+      expect(Number(rec['Tracks due'])).toBe(row.tracksDue)
+      expect(rec['Not ready because']).toBe(row.missing.join('; '))
+      if (row.lastWatchAt !== null) {
+        // 13 hours ahead of UTC, written YYYY-MM-DD HH:MM.
+        const nz = new Date(row.lastWatchAt + 13 * 3_600_000).toISOString()
+        expect(rec['Last watch (Pacific/Auckland)']).toBe(`${nz.slice(0, 10)} ${nz.slice(11, 16)}`)
+      }
+    }
+    const badZone = await fx.lead.client.get(`/api/crews/${fx.crewId}/stats.csv?tz=Mars/Olympus`)
+    expect(badZone.status).toBe(400)
+    expect(badZone.body.message).toMatch(/Unknown time zone/)
   })
 })
 
@@ -242,11 +262,11 @@ describe('stats.csv and formula cells', () => {
     try {
       const csv = await fx.lead.client.get(`/api/crews/${fx.crewId}/stats.csv`)
       expect(csv.status).toBe(200)
-      const records = parse(csv.text, { columns: true }) as Record<string, string>[]
-      expect(records.find(x => x.userId === t.id)!.name).toBe(`'${name}`)
+      const records = parse(csv.text, { columns: true, bom: true }) as Record<string, string>[]
+      expect(records.find(x => x['Person id'] === t.id)!.Name).toBe(`'${name}`)
       // Plain names and numbers are not touched.
-      expect(records.find(x => x.userId === fx.trainees.t90.id)!.name).toMatch(/^Test trainee/)
-      expect(Number(records.find(x => x.userId === t.id)!.calls)).toBeGreaterThan(0)
+      expect(records.find(x => x['Person id'] === fx.trainees.t90.id)!.Name).toMatch(/^Test trainee/)
+      expect(Number(records.find(x => x['Person id'] === t.id)!.Calls)).toBeGreaterThan(0)
     }
     finally {
       setName(t.id, before)

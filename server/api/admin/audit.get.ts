@@ -1,11 +1,11 @@
-import { desc, eq } from 'drizzle-orm'
+import { AuditQuery } from '#shared/schemas/admin'
 
+// The audit log, newest first, filtered by action and a search, a page at a time (X-Total-Count
+// holds how many matched). Each entry names the people, crews, decks and checks it points at.
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
-  return useDb().select({
-    id: tables.auditLog.id, action: tables.auditLog.action, subjectType: tables.auditLog.subjectType,
-    subjectId: tables.auditLog.subjectId, detail: tables.auditLog.detail, createdAt: tables.auditLog.createdAt,
-    actorName: tables.users.name,
-  }).from(tables.auditLog).leftJoin(tables.users, eq(tables.users.id, tables.auditLog.actorId))
-    .orderBy(desc(tables.auditLog.createdAt)).limit(500).all()
+  const { q, action, page = 1, size = 500 } = await queryInput(event, AuditQuery)
+  const { total, entries } = listAudit({ q: q ?? '', action: action ?? '', page, size })
+  setResponseHeader(event, 'X-Total-Count', String(total))
+  return entries
 })

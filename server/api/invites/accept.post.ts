@@ -16,7 +16,7 @@ export default defineEventHandler(async (event) => {
   const outcome = db.transaction((tx) => {
     if (tx.select({ id: tables.users.id }).from(tables.users).where(eq(tables.users.email, inv.email)).get()) return 'taken'
     const r = tx.update(tables.invitations).set({ usedAt: Date.now() })
-      .where(and(eq(tables.invitations.id, inv.id), isNull(tables.invitations.usedAt))).run()
+      .where(and(eq(tables.invitations.id, inv.id), isNull(tables.invitations.usedAt), isNull(tables.invitations.revokedAt))).run()
     if (r.changes !== 1) return 'used'
     tx.insert(tables.users).values({ id: userId, email: inv.email, name, passwordHash }).run()
     tx.insert(tables.userRoles).values({ userId, role: inv.role }).run()
@@ -24,7 +24,7 @@ export default defineEventHandler(async (event) => {
     return 'created'
   })
   if (outcome === 'taken') throw createError({ statusCode: 409, message: TAKEN })
-  if (outcome === 'used') throw createError({ statusCode: 400, message: 'This invitation has expired or was already used. Ask for a new one.' })
+  if (outcome === 'used') throw createError({ statusCode: 400, message: 'This invitation was used or withdrawn a moment ago. Sign in, or ask for a new one.' })
   await startSession(event, { id: userId, sessionVersion: 1 })
   setResponseStatus(event, 201)
   return meOf(await requireActorFor(event))

@@ -1,15 +1,11 @@
-import { asc } from 'drizzle-orm'
+import { PeopleQuery } from '#shared/schemas/admin'
 
+// Every account, or those whose name or e-mail holds `q`, a page at a time (newest paging header
+// X-Total-Count holds the number that matched). Each person comes with roles and crews.
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
-  const db = useDb()
-  const roles = db.select().from(tables.userRoles).all()
-  const members = db.select().from(tables.memberships).all()
-  return db.select({ id: tables.users.id, email: tables.users.email, name: tables.users.name, disabled: tables.users.disabled, createdAt: tables.users.createdAt })
-    .from(tables.users).orderBy(asc(tables.users.name)).all()
-    .map(u => ({
-      ...u,
-      roles: roles.filter(r => r.userId === u.id).map(r => r.role),
-      crewIds: members.filter(m => m.userId === u.id).map(m => m.crewId),
-    }))
+  const { q, page = 1, size = 500 } = await queryInput(event, PeopleQuery)
+  const { total, people } = listPeople(q ?? '', page, size)
+  setResponseHeader(event, 'X-Total-Count', String(total))
+  return people
 })

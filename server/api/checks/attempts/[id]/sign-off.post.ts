@@ -1,10 +1,14 @@
+import { SignOffBody } from '#shared/schemas/checks'
 import { IdParam } from '#shared/schemas/params'
 
-// A lead of the trainee's crew signs off a finished attempt, once.
+// A lead of the trainee's crew signs off a finished attempt, once, with an optional remark.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'lead')
-  const attempt = signOffCheckAttempt(useSqlite(), actor, id)
-  audit(actor, 'check.sign-off', 'check_attempt', id, { checkId: attempt.checkId, userId: attempt.userId, score: attempt.score, passed: attempt.passed })
+  const { remark } = await readInput(event, SignOffBody)
+  const attempt = signOffCheckAttempt(useSqlite(), actor, id, Date.now(), remark ?? null)
+  audit(actor, 'check.sign-off', 'check_attempt', id, {
+    checkId: attempt.checkId, userId: attempt.userId, score: attempt.score, passed: attempt.passed, ...(remark ? { remark } : {}),
+  })
   return attempt
 })

@@ -1,0 +1,5 @@
+// Every action in the audit log with how many entries it has: the audit page's filter.
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'admin')
+  return auditActions()
+})

@@ -1,0 +1,5 @@
+// The invitations still waiting for an answer (admins): resend or withdraw them from the People page.
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'admin')
+  return pendingInvitations()
+})

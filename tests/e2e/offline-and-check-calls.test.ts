@@ -46,9 +46,9 @@ describe('calls graded offline (issue 14, item 2)', () => {
     expect(row.offlineCalls).toBe(1)
     const csv = await lead.get(`/api/crews/${fx.crewId}/stats.csv?deckId=${fx.deckId}&days=30`)
     expect(csv.status).toBe(200)
-    const rec = (parse(csv.text, { columns: true }) as Record<string, string>[]).find(x => x.userId === t.id)!
-    expect(rec.offlineCalls).toBe('1')
-    expect(rec.calls).toBe('3')
+    const rec = (parse(csv.text, { columns: true, bom: true }) as Record<string, string>[]).find(x => x['Person id'] === t.id)!
+    expect(rec['Calls graded offline']).toBe('1')
+    expect(rec.Calls).toBe('3')
   })
 
   it('count toward readiness only when the crew\'s standard says so (default: no), set by its lead', async () => {

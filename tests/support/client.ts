@@ -70,11 +70,29 @@ export async function linkFromOutbox(admin: Client, to: string, path: string) {
 }
 
 let freshCount = 0
+let deputy: Promise<Client> | null = null
 
-// A new person made through the real invitation flow (admin invites, the link is accepted),
+// An admin of this test file's own, invited once by the demo admin: each sender may send 60
+// invitations an hour (server/utils/rate-limit.ts), and a whole suite makes more people than that.
+function inviter(): Promise<Client> {
+  deputy ??= (async () => {
+    const admin = await signedIn('admin@glint.demo')
+    const email = `d${Date.now().toString(36)}-${process.pid}-admin@glint.test`
+    const inv = await admin.post('/api/invites', { email, role: 'admin', crewId: null })
+    if (inv.status !== 201) throw new Error(`invite: ${inv.status} ${inv.text}`)
+    const token = await linkFromOutbox(admin, email, '/invite')
+    const c = new Client()
+    const r = await c.post('/api/invites/accept', { token, name: `Test admin ${process.pid}`, password: 'a long enough test phrase' })
+    if (r.status !== 201) throw new Error(`accept: ${r.status} ${r.text}`)
+    return c
+  })()
+  return deputy
+}
+
+// A new person made through the real invitation flow (an admin invites, the link is accepted),
 // so tests that change or lock an account never spoil the shared demo accounts.
 export async function freshPerson(role: 'trainee' | 'instructor' | 'lead' | 'admin', crewId: string | null, password = 'a long enough test phrase') {
-  const admin = await signedIn('admin@glint.demo')
+  const admin = await inviter()
   const email = `t${Date.now().toString(36)}-${++freshCount}-${role}@glint.test`
   const inv = await admin.post('/api/invites', { email, role, crewId })
   if (inv.status !== 201) throw new Error(`invite: ${inv.status} ${inv.text}`)

@@ -30,5 +30,5 @@ export function watchCardText(today: WatchToday | null): string {
   const due = today.decks.reduce((n, d) => n + d.due, 0)
   const fresh = today.decks.reduce((n, d) => n + d.new, 0)
   if (!due && !fresh) return 'Nothing due today.'
-  return `${due} due and ${fresh} new sighting${due + fresh === 1 ? '' : 's'} today.`
+  return `Today: ${due} to refresh · ${fresh} to meet.`
 }

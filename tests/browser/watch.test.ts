@@ -55,7 +55,7 @@ describe('the watch page at 390x844', () => {
 
     await page.goto('/watch')
     if (await page.locator('#watch-deck').count()) await page.selectOption('#watch-deck', deck.id)
-    await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/7 due · 1 new/)
+    await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/7 to refresh · 1 to meet/)
     await page.getByRole('button', { name: 'Start watch' }).click()
     await page.getByTestId('sighting-box').waitFor()
     // Layout shifts from here on, not caused by a tap (Layout Instability API: hadRecentInput).

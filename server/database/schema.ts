@@ -139,6 +139,18 @@ export const views = sqliteTable('views', {
   ...timestamps,
 }, t => [index('views_type_idx').on(t.targetTypeId)])
 
+// A removed view waits here (its row and renderings' rows as they were, the files kept on disk) for
+// VIEW_TRASH_DAYS, so that its instructor can restore it; then it is purged with its files.
+export const removedViews = sqliteTable('removed_views', {
+  id: text('id').primaryKey(), // the view's own id, reused on restore
+  deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
+  targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  aspect: text('aspect').notNull(),
+  snapshot: text('snapshot', { mode: 'json' }).notNull().$type<{ view: Record<string, unknown>, variants: Record<string, unknown>[] }>(),
+  removedBy: text('removed_by').references(() => users.id, { onDelete: 'set null' }),
+  removedAt: integer('removed_at').notNull(),
+}, t => [index('removed_views_deck_idx').on(t.deckId, t.removedAt)])
+
 // One rendering of a view under one condition at one size; `file` is a content hash name.
 export const variants = sqliteTable('variants', {
   id: text('id').primaryKey(),
@@ -284,6 +296,10 @@ export const checks = sqliteTable('checks', {
   aspects: text('aspects', { mode: 'json' }).notNull().$type<string[]>(),
   passMark: real('pass_mark').notNull(),
   createdBy: text('created_by').notNull().references(() => users.id),
+  // The day by which the crew should have taken it (end of that UTC day), or none.
+  dueAt: integer('due_at'),
+  // Retired: no longer offered to take, kept with its attempts and results.
+  retiredAt: integer('retired_at'),
   ...timestamps,
 })
 

@@ -151,6 +151,7 @@ function requireOwnDeckForCheck(sqlite: Database, actor: Actor, deckId: string):
   if (!deck) throw fail(404, 'deckId: No such deck.')
   if (deck.ownerId !== actor.id) throw fail(403, 'Only the deck\'s own instructor defines checks on it.')
   if (deck.status === 'archived') throw fail(409, 'This deck is archived; checks are defined on live decks.')
+  if (deck.status === 'draft') throw fail(409, 'deckId: This deck is a draft; publish it before defining a check on it.')
   return loadDrillContent(sqlite, deckId)!
 }
 

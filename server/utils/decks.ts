@@ -1,8 +1,8 @@
 // Decks, target types and views: who may see and change them, and their database work.
 import type { H3Event } from 'h3'
-import { and, asc, eq, inArray, or } from 'drizzle-orm'
+import { and, asc, desc, eq, gte, inArray, lt, or } from 'drizzle-orm'
 import { ASPECTS, CONDITIONS } from '#shared/utils/conditions'
-import { featuresProblem } from '#shared/schemas/decks'
+import { featuresProblem, settingsConflict } from '#shared/schemas/decks'
 import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
 import type { Actor } from './gate'
 
@@ -213,7 +213,8 @@ export function deckDrilled(deckId: string) {
 }
 
 function checkSettings(s: DeckSettings) {
-  if (s.hesitationMs >= s.windowMs) throw bad('settings.hesitationMs: The hesitation limit must be shorter than the answer window.')
+  const conflict = settingsConflict(s)
+  if (conflict) throw bad(`${conflict.field}: ${conflict.message}`)
 }
 
 export function createDeck(actor: Actor, body: { title: string, description?: string, category: string, settings?: DeckSettingsPatch }) {
@@ -252,7 +253,8 @@ export function patchDeck(actor: Actor, deck: DeckRow, patch: DeckPatch) {
 export async function deleteDeck(actor: Actor, deck: DeckRow) {
   if (deckDrilled(deck.id)) throw conflict('This deck has been drilled, so its history must stay: archive it instead.')
   const db = useDb()
-  const files = filesOf(db.select({ id: tables.targetTypes.id }).from(tables.targetTypes).where(eq(tables.targetTypes.deckId, deck.id)).all().map(t => t.id))
+  const typeIds = db.select({ id: tables.targetTypes.id }).from(tables.targetTypes).where(eq(tables.targetTypes.deckId, deck.id)).all().map(t => t.id)
+  const files = [...filesOf(typeIds), ...trashedFilesOfTypes(typeIds)]
   db.transaction((tx) => {
     tx.delete(tables.jobs).where(eq(tables.jobs.deckId, deck.id)).run()
     tx.delete(tables.decks).where(eq(tables.decks.id, deck.id)).run()
@@ -377,7 +379,7 @@ function filesOf(typeIds: string[], viewIds?: string[]) {
 
 export async function deleteTargetType(actor: Actor, type: TypeRow) {
   if (typeDrilled(type.id)) throw conflict('This target type has been drilled, so its history must stay. Archive the deck instead.')
-  const files = filesOf([type.id])
+  const files = [...filesOf([type.id]), ...trashedFilesOfTypes([type.id])]
   useDb().delete(tables.targetTypes).where(eq(tables.targetTypes.id, type.id)).run()
   await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
   audit(actor, 'target-type.delete', 'target_type', type.id, { name: type.name })
@@ -398,16 +400,96 @@ export async function requireOwnView(event: H3Event, viewId: string) {
   return { ...found, view }
 }
 
-export async function deleteView(actor: Actor, viewId: string) {
+// A removed view can be restored for this many days; then its files are deleted (common practice
+// of trash folders, no source; 30 days is a design value).
+export const VIEW_TRASH_DAYS = 30
+const TRASH_MS = VIEW_TRASH_DAYS * 86_400_000
+
+type VariantRow = typeof tables.variants.$inferSelect
+type ViewRow = typeof tables.views.$inferSelect
+
+function trashFiles(rows: { snapshot: { variants: Record<string, unknown>[] } }[]) {
+  return rows.flatMap(r => r.snapshot.variants.map(v => String(v.file)))
+}
+
+// Files of trashed views that no stored rendering uses (a picture uploaded again has the same name).
+function unusedFiles(files: string[]) {
+  if (!files.length) return []
+  const used = new Set(useDb().select({ file: tables.variants.file }).from(tables.variants).where(inArray(tables.variants.file, files)).all().map(v => v.file))
+  return files.filter(f => !used.has(f))
+}
+
+/** Purges removed views older than the retention period, with their files. */
+export async function purgeViewTrash(nowMs = Date.now()) {
   const db = useDb()
-  const files = filesOf([], [viewId])
+  const old = db.select().from(tables.removedViews).where(lt(tables.removedViews.removedAt, nowMs - TRASH_MS)).all()
+  if (!old.length) return 0
+  db.delete(tables.removedViews).where(inArray(tables.removedViews.id, old.map(r => r.id))).run()
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, unusedFiles(trashFiles(old)))
+  return old.length
+}
+
+/** Files of the trashed views of these target types (deleted with the type or deck). */
+function trashedFilesOfTypes(typeIds: string[]) {
+  if (!typeIds.length) return []
+  return trashFiles(useDb().select().from(tables.removedViews).where(inArray(tables.removedViews.targetTypeId, typeIds)).all())
+}
+
+/** Moves a view and its renderings' rows to the trash; the files stay until the trash is purged. */
+export async function deleteView(actor: Actor, deck: DeckRow, view: ViewRow, nowMs = Date.now()) {
+  const db = useDb()
   const used = db.select({ id: tables.sightings.id }).from(tables.sightings)
     .innerJoin(tables.variants, eq(tables.variants.id, tables.sightings.variantId))
-    .where(eq(tables.variants.viewId, viewId)).get()
+    .where(eq(tables.variants.viewId, view.id)).get()
   if (used) throw conflict('This view has been shown in watches, so it stays with their history.')
-  db.delete(tables.views).where(eq(tables.views.id, viewId)).run()
-  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
-  audit(actor, 'view.delete', 'view', viewId)
+  const variants = db.select().from(tables.variants).where(eq(tables.variants.viewId, view.id)).all()
+  db.transaction((tx) => {
+    tx.insert(tables.removedViews).values({
+      id: view.id, deckId: deck.id, targetTypeId: view.targetTypeId, aspect: view.aspect,
+      snapshot: { view: { ...view }, variants: variants.map(v => ({ ...v })) }, removedBy: actor.id, removedAt: nowMs,
+    }).run()
+    tx.delete(tables.views).where(eq(tables.views.id, view.id)).run()
+  })
+  audit(actor, 'view.remove', 'view', view.id, { deckId: deck.id, aspect: view.aspect })
+  await purgeViewTrash(nowMs)
+  return { id: view.id, restorableUntil: nowMs + TRASH_MS }
+}
+
+export interface TrashedView { id: string, targetTypeId: string, typeName: string, aspect: string, removedAt: number, restorableUntil: number }
+
+/** The deck's removed views still in the trash, newest first. */
+export function viewTrash(deckId: string, nowMs = Date.now()): TrashedView[] {
+  return useDb().select({ r: tables.removedViews, typeName: tables.targetTypes.name }).from(tables.removedViews)
+    .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.removedViews.targetTypeId))
+    .where(and(eq(tables.removedViews.deckId, deckId), gte(tables.removedViews.removedAt, nowMs - TRASH_MS)))
+    .orderBy(desc(tables.removedViews.removedAt)).all()
+    .map(({ r, typeName }) => ({ id: r.id, targetTypeId: r.targetTypeId, typeName, aspect: r.aspect, removedAt: r.removedAt, restorableUntil: r.removedAt + TRASH_MS }))
+}
+
+/** The trashed view if the actor owns its deck: 404 for an unknown one or one past its retention. */
+export async function requireOwnTrashedView(event: H3Event, viewId: string, nowMs = Date.now()) {
+  const row = useDb().select().from(tables.removedViews).where(eq(tables.removedViews.id, viewId)).get()
+  if (!row || row.removedAt < nowMs - TRASH_MS) {
+    await requireRole(event, 'instructor')
+    throw createError({ statusCode: 404, message: `No such removed view: removed views are kept for ${VIEW_TRASH_DAYS} days.` })
+  }
+  const found = await requireOwnDeck(event, row.deckId)
+  return { ...found, row }
+}
+
+/** Puts a removed view back, with its renderings, as it was. */
+export function restoreView(actor: Actor, row: typeof tables.removedViews.$inferSelect) {
+  const db = useDb()
+  const variants = row.snapshot.variants as unknown as VariantRow[]
+  if (unusedFiles(variants.map(v => v.file)).length !== variants.length) {
+    throw conflict('This picture was uploaded again for the deck, so the removed copy is not needed.')
+  }
+  db.transaction((tx) => {
+    tx.insert(tables.views).values(row.snapshot.view as unknown as ViewRow).run()
+    for (const v of variants) tx.insert(tables.variants).values(v).run()
+    tx.delete(tables.removedViews).where(eq(tables.removedViews.id, row.id)).run()
+  })
+  audit(actor, 'view.restore', 'view', row.id, { deckId: row.deckId, aspect: row.aspect })
 }
 
 /** Does the actor manage (own, or administer) the deck that uses this rendering? See managesDeck. */

@@ -40,8 +40,9 @@ function statementsFor(sqlite: Database) {
   return {
     crew: p(`SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
       offline_counts AS offlineCounts FROM crews WHERE id = ?`),
+    // Published decks only: a draft is shown to nobody but its instructors, and is not drilled.
     crewDecks: p(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
-      WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`),
+      WHERE dc.crew_id = ? AND d.status = 'published' ORDER BY d.title, d.id`),
     trainees: p(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
       WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee')
       ORDER BY u.name, u.id`),

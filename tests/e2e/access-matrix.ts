@@ -42,6 +42,9 @@ export const MATRIX: Record<string, Entry> = {
   'PATCH /api/target-types/:target-type': deckOwner,
   'DELETE /api/target-types/:target-type': deckOwner,
   'DELETE /api/views/:view': deckOwner,
+  // The trash of removed views (issue 17, item 4): its deck's owner only.
+  'GET /api/decks/:deck/trash': deckOwner,
+  'POST /api/views/:view/restore': deckOwner,
   // An upload job is its uploader's only (an instructor's); nobody else learns it exists.
   'GET /api/jobs/:job': { anon: 401, trainee: 404, instructor: 'ok', lead: 404, admin: 404 },
   'POST /api/watches': { anon: 401, trainee: 'ok', instructor: 403, lead: 403, admin: 403 },

@@ -108,6 +108,15 @@ const REQUESTS: Record<string, Build> = {
     writeDb(db => db.prepare(`INSERT INTO views (id, target_type_id, aspect, source_sha, width, height) VALUES (?, ?, 'beam', ?, 320, 214)`).run(view, s.draftType, randomBytes(32).toString('hex')))
     return { params: { view } }
   },
+  'GET /api/decks/:deck/trash': s => ({ params: { deck: s.draftDeck } }),
+  'POST /api/views/:view/restore': (s) => {
+    // A view in the draft deck's trash, as DELETE /api/views/:view leaves it.
+    const view = randomBytes(16).toString('base64url')
+    const snapshot = { view: { id: view, targetTypeId: s.draftType, aspect: 'beam', sourceSha: randomBytes(32).toString('hex'), width: 320, height: 214 }, variants: [] }
+    writeDb(db => db.prepare(`INSERT INTO removed_views (id, deck_id, target_type_id, aspect, snapshot, removed_at) VALUES (?, ?, ?, 'beam', ?, ?)`)
+      .run(view, s.draftDeck, s.draftType, JSON.stringify(snapshot), Date.now()))
+    return { params: { view } }
+  },
   'POST /api/watches': s => ({ body: { deckId: s.deck } }),
   'POST /api/sightings/:sighting/call': s => ({ params: { sighting: s.sightings[0]! }, body: { choiceId: null, latencyMs: null, framesShown: 6, frameIntervalMs: 16.7 } }),
   'POST /api/sightings/:sighting/void': s => ({ params: { sighting: s.sightings[1]! } }),

@@ -28,8 +28,11 @@ const checkFields = {
     .min(0.5, 'Use a pass mark from 0.5 to 1 (50 to 100 %).').max(1, 'Use a pass mark from 0.5 to 1 (50 to 100 %).'),
 }
 
-export const CheckBody = z.object({ deckId: Id, ...checkFields }).strict()
-export const CheckPatch = z.object(checkFields).partial().strict()
+// The day by which a crew should have taken the check (a calendar date, ISO 8601), or null for none.
+const DueDate = z.iso.date({ message: 'Give the due date as a date (YYYY-MM-DD), or leave it empty.' }).nullable()
+
+export const CheckBody = z.object({ deckId: Id, ...checkFields, dueDate: DueDate.optional() }).strict()
+export const CheckPatch = z.object({ ...checkFields, dueDate: DueDate }).partial().strict()
   .refine(b => Object.keys(b).length > 0, { message: 'Send at least one field to change.' })
 
 export type CheckInput = z.infer<typeof CheckBody>
@@ -50,6 +53,10 @@ export interface CheckView {
   createdBy: string
   createdAt: number
   attempts: number
+  // YYYY-MM-DD (due by the end of that UTC day), or null
+  dueDate: string | null
+  // set once retired: no longer offered, kept with its results
+  retiredAt: number | null
 }
 
 export interface AttemptSummary {

@@ -99,6 +99,8 @@ export const MATRIX: Record<string, Entry> = {
   'GET /api/checks/:check': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
   'PATCH /api/checks/:check': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
   'DELETE /api/checks/:check': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
+  // Retiring a check (issue 17, item 7): its own instructor only.
+  'POST /api/checks/:check/retire': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
   'POST /api/checks/:check/attempts': { anon: 401, trainee: 'ok', instructor: 403, lead: 403, admin: 403 },
   // A result: the trainee, a lead of the crew the check belongs to, the check's instructor, an admin.
   'GET /api/checks/attempts/:attempt': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },

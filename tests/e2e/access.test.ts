@@ -134,6 +134,9 @@ const REQUESTS: Record<string, Build> = {
   'DELETE /api/checks/:check': async s => ({
     params: { check: (await ok(s.instructor.client.post('/api/checks', { ...CHECK, deckId: s.deck, title: unique('Matrix doomed check') }), 'check')).id },
   }),
+  'POST /api/checks/:check/retire': async s => ({
+    params: { check: (await ok(s.instructor.client.post('/api/checks', { ...CHECK, deckId: s.deck, title: unique('Matrix retired check') }), 'check')).id },
+  }),
   'POST /api/checks/:check/attempts': s => ({ params: { check: s.checkToTake } }),
   'GET /api/checks/attempts/:attempt': s => ({ params: { attempt: s.attempts.get } }),
   'POST /api/checks/attempts/:attempt/finish': s => ({ params: { attempt: s.attempts.finish } }),

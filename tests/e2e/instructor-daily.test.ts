@@ -101,3 +101,71 @@ describe('a draft deck is shown to nobody but its instructors (issue 17, item 8)
     expect(readDb(db => db.prepare('SELECT count(*) FROM checks WHERE deck_id = ?').pluck().get(draftId))).toBe(0)
   })
 })
+
+describe('checks: a due date, editable until taken, retired afterwards, audited (issue 17, item 7)', () => {
+  const body = (over: Record<string, unknown> = {}) => ({
+    deckId, title: `Daily check ${Date.now().toString(36)}`, sightingCount: 5, exposureMs: 500, conditions: ['sunlit'], aspects: ['beam'], passMark: 0.6, ...over,
+  })
+  // ISO 8601 calendar dates, as <input type="date"> sends them (HTML, "valid date string").
+  const isoDay = (offsetDays: number) => new Date(Date.now() + offsetDays * DAY).toISOString().slice(0, 10)
+  const row = (id: string) => readDb(db => db.prepare('SELECT title, due_at AS dueAt, retired_at AS retiredAt FROM checks WHERE id = ?').get(id) as { title: string, dueAt: number | null, retiredAt: number | null })
+
+  it('stores a due date as the end of that UTC day, refuses a past or malformed one with a sentence, and audits the creation', async () => {
+    const due = isoDay(7)
+    const r = await owner.client.post('/api/checks', body({ dueDate: due }))
+    expect(r.status, r.text).toBe(201)
+    expect(r.body.dueDate).toBe(due)
+    expect(row(r.body.id).dueAt).toBe(Date.parse(`${due}T23:59:59.999Z`))
+    expect(auditOf('check.create', r.body.id)).toEqual([{ actorId: owner.id }])
+    const before = readDb(db => db.prepare('SELECT count(*) FROM checks').pluck().get())
+    const past = await owner.client.post('/api/checks', body({ dueDate: isoDay(-2) }))
+    expect(past.status).toBe(400)
+    expect(past.body.message).toBe('dueDate: That day is past; choose a due date from today on.')
+    const malformed = await owner.client.post('/api/checks', body({ dueDate: '31/12/2026' }))
+    expect(malformed.status).toBe(400)
+    expect(malformed.body.message).toMatch(/^dueDate: Give the due date as a date \(YYYY-MM-DD\)/)
+    expect(readDb(db => db.prepare('SELECT count(*) FROM checks').pluck().get())).toBe(before)
+  })
+
+  it('changes freely until taken; once taken only its due date moves, it cannot be deleted, and it retires with its results kept', async () => {
+    const made = (await owner.client.post('/api/checks', body())).body
+    const renamed = await owner.client.patch(`/api/checks/${made.id}`, { title: 'Renamed before anyone took it', passMark: 0.7 })
+    expect(renamed.status, renamed.text).toBe(200)
+    expect(row(made.id).title).toBe('Renamed before anyone took it')
+    expect(auditOf('check.update', made.id)).toEqual([{ actorId: owner.id }])
+
+    const trainee = await directPerson(['trainee'], crewId)
+    const started = await trainee.client.post(`/api/checks/${made.id}/attempts`)
+    expect(started.status, started.text).toBe(201)
+    const late = await owner.client.patch(`/api/checks/${made.id}`, { title: 'Changed after it was taken' })
+    expect(late.status).toBe(409)
+    expect(late.body.message).toMatch(/only its due date can change/)
+    expect(row(made.id).title).toBe('Renamed before anyone took it')
+    const moved = await owner.client.patch(`/api/checks/${made.id}`, { dueDate: isoDay(3) })
+    expect(moved.status, moved.text).toBe(200)
+    expect(row(made.id).dueAt).toBe(Date.parse(`${isoDay(3)}T23:59:59.999Z`))
+    const del = await owner.client.del(`/api/checks/${made.id}`)
+    expect(del.status).toBe(409)
+    expect(del.body.message).toMatch(/retire it instead/)
+
+    // Only its own instructor retires it.
+    const other = await directPerson(['instructor'], crewId)
+    expect((await other.client.post(`/api/checks/${made.id}/retire`)).status).toBe(403)
+    const retired = await owner.client.post(`/api/checks/${made.id}/retire`)
+    expect(retired.status, retired.text).toBe(200)
+    expect(row(made.id).retiredAt).toBeGreaterThan(Date.now() - 60_000)
+    expect(auditOf('check.retire', made.id)).toEqual([{ actorId: owner.id }])
+    expect((await owner.client.post(`/api/checks/${made.id}/retire`)).status).toBe(409)
+    expect((await owner.client.patch(`/api/checks/${made.id}`, { dueDate: null })).status).toBe(409)
+
+    // No longer offered to a trainee who has not taken it; the one who did still sees it and its attempt.
+    const newcomer = await directPerson(['trainee'], crewId)
+    const refused = await newcomer.client.post(`/api/checks/${made.id}/attempts`)
+    expect(refused.status).toBe(409)
+    expect(refused.body.message).toMatch(/retired/)
+    expect((await newcomer.client.get('/api/checks')).body.toTake.map((c: { id: string }) => c.id)).not.toContain(made.id)
+    const mine = (await trainee.client.get('/api/checks')).body.toTake.find((c: { id: string }) => c.id === made.id)
+    expect(mine).toMatchObject({ status: 'running', attemptId: started.body.attemptId })
+    expect(readDb(db => db.prepare('SELECT count(*) FROM check_attempts WHERE check_id = ?').pluck().get(made.id))).toBe(1)
+  })
+})

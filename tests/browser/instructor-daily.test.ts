@@ -1,0 +1,67 @@
+// The instructor's daily work at desktop size (issue 17): checks with a due date, changed before
+// anyone takes them and retired after, each step asserted in the database.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { DESKTOP, launch, newPage, shot, signIn } from '../support/browser'
+import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
+
+let browser: Browser
+beforeAll(async () => {
+  browser = await launch()
+})
+afterAll(async () => {
+  await browser?.close()
+})
+
+const checkRow = (title: string) => readDb(db => db.prepare('SELECT id, due_at AS dueAt, retired_at AS retiredAt, pass_mark AS passMark FROM checks WHERE title = ?')
+  .get(title) as { id: string, dueAt: number | null, retiredAt: number | null, passMark: number } | undefined)
+
+describe('checks (issue 17, item 7)', () => {
+  it('defines a check with a due date, changes it before anyone takes it, and retires it after, asking first', async () => {
+    const fx = await ensureDrillFixture()
+    const { context, page } = await newPage(browser, DESKTOP)
+    await signIn(page, 'instructor@glint.demo')
+    await page.goto('/checks')
+    const form = page.getByTestId('check-form')
+    const deckTitle = readDb(db => db.prepare('SELECT title FROM decks WHERE id = ?').pluck().get(fx.deckId)) as string
+    await form.getByLabel('Deck').selectOption({ label: deckTitle })
+    await expect.poll(() => form.getByRole('checkbox', { name: 'beam' }).count()).toBe(1)
+    const title = `Dawn watch check ${Date.now().toString(36)}`
+    await form.getByLabel('Title').fill(title)
+    // An ISO 8601 date, as <input type="date"> holds it (HTML, "valid date string").
+    const due = new Date(Date.now() + 10 * 86_400_000).toISOString().slice(0, 10)
+    await form.getByLabel('Due date (optional)').fill(due)
+    await form.getByRole('button', { name: 'Define the check' }).click()
+    const item = page.getByTestId('defined-check').filter({ hasText: title })
+    await item.waitFor()
+    expect(checkRow(title)?.dueAt).toBe(Date.parse(`${due}T23:59:59.999Z`))
+    expect(await item.textContent()).toContain('Due by')
+
+    // Nobody took it yet: it can be changed in place.
+    await item.getByRole('button', { name: `Change ${title}` }).click()
+    const edit = page.getByTestId('check-form')
+    await edit.getByLabel('Pass mark (%)').fill('85')
+    await shot(page, 'checks-change')
+    await edit.getByRole('button', { name: 'Save the check' }).click()
+    await expect.poll(() => checkRow(title)?.passMark).toBe(0.85)
+
+    // Taken once, it can no longer be changed or deleted, only retired.
+    const trainee = await drillTrainee(fx.crewId)
+    const started = await trainee.client.post(`/api/checks/${checkRow(title)!.id}/attempts`)
+    expect(started.status, started.text).toBe(201)
+    await page.reload()
+    await item.waitFor()
+    expect(await item.getByRole('button', { name: `Change ${title}` }).count()).toBe(0)
+    expect(await item.getByRole('button', { name: `Delete ${title}` }).count()).toBe(0)
+    await item.getByRole('button', { name: `Retire ${title}` }).click()
+    const dialog = page.getByRole('dialog', { name: `Retire ${title}?` })
+    await dialog.waitFor()
+    expect(await dialog.textContent()).toContain('keep their results')
+    await shot(page, 'checks-retire-confirm')
+    await dialog.getByRole('button', { name: 'Retire the check' }).click()
+    await expect.poll(() => checkRow(title)?.retiredAt ?? null).not.toBeNull()
+    await expect.poll(() => item.textContent()).toContain('Retired')
+    await shot(page, 'checks-instructor')
+    await context.close()
+  })
+})

@@ -300,6 +300,8 @@ export const checks = sqliteTable('checks', {
   dueAt: integer('due_at'),
   // Retired: no longer offered to take, kept with its attempts and results.
   retiredAt: integer('retired_at'),
+  // Only these target types of the deck are shown (JSON list), or null for all of them.
+  targetTypeIds: text('target_type_ids', { mode: 'json' }).$type<string[]>(),
   ...timestamps,
 })
 

@@ -48,11 +48,12 @@ interface CheckRow {
   attempts: number
   dueAt: number | null
   retiredAt: number | null
+  targetTypeIds: string | null
 }
 
 const CHECK_SELECT = `SELECT c.id, c.deck_id AS deckId, d.title AS deckTitle, d.owner_id AS deckOwner, d.status AS deckStatus, c.title,
   c.sighting_count AS sightingCount, c.exposure_ms AS exposureMs, c.conditions, c.aspects, c.pass_mark AS passMark,
-  c.created_by AS createdBy, c.created_at AS createdAt, c.due_at AS dueAt, c.retired_at AS retiredAt, (SELECT count(*) FROM check_attempts a WHERE a.check_id = c.id) AS attempts
+  c.created_by AS createdBy, c.created_at AS createdAt, c.due_at AS dueAt, c.retired_at AS retiredAt, c.target_type_ids AS targetTypeIds, (SELECT count(*) FROM check_attempts a WHERE a.check_id = c.id) AS attempts
   FROM checks c JOIN decks d ON d.id = c.deck_id`
 
 interface AttemptRow {
@@ -80,6 +81,7 @@ function toView(r: CheckRow): CheckView {
     conditions: JSON.parse(r.conditions) as string[], aspects: JSON.parse(r.aspects) as string[], passMark: r.passMark,
     createdBy: r.createdBy, createdAt: r.createdAt, attempts: r.attempts,
     dueDate: r.dueAt === null ? null : new Date(r.dueAt).toISOString().slice(0, 10), retiredAt: r.retiredAt,
+    targetTypeIds: r.targetTypeIds === null ? null : JSON.parse(r.targetTypeIds) as string[],
   }
 }
 
@@ -120,8 +122,8 @@ function leadsAttempt(sqlite: Database, actor: Actor, a: AttemptRow) {
 // ---------------------------------------------------------------- definitions
 
 /** Which (type, aspect, condition) combinations the deck can show under the check's settings. */
-function checkCombos(content: DeckContent, aspects: readonly string[], conditions: readonly string[]) {
-  const types = new Set(content.types.map(t => t.id))
+function checkCombos(content: DeckContent, aspects: readonly string[], conditions: readonly string[], only: readonly string[] | null = null) {
+  const types = new Set(content.types.map(t => t.id).filter(id => !only || only.includes(id)))
   const out = new Map<string, { targetTypeId: string, aspect: string, condition: string, variants: ContentVariant[][] }>()
   for (const v of viewsWithRenderings(content)) {
     if (!types.has(v.targetTypeId) || !aspects.includes(v.aspect)) continue
@@ -138,11 +140,16 @@ function checkCombos(content: DeckContent, aspects: readonly string[], condition
 }
 
 // A check needs a view at every chosen aspect and at least two target types to show.
-function assertDrawable(content: DeckContent, aspects: readonly string[], conditions: readonly string[]) {
+function assertDrawable(content: DeckContent, aspects: readonly string[], conditions: readonly string[], only: readonly string[] | null = null) {
+  if (only) {
+    const known = new Set(content.types.map(t => t.id))
+    if (only.some(id => !known.has(id))) throw fail(400, 'targetTypeIds: Choose target types of this deck.')
+    if (new Set(only).size < 2) throw fail(400, 'targetTypeIds: Choose at least two target types; a check needs two to tell apart.')
+  }
   const rendered = viewsWithRenderings(content)
   const missing = aspects.filter(a => !rendered.some(v => v.aspect === a))
   if (missing.length) throw fail(400, `aspects: The deck has no view at ${missing.join(', ')}; choose aspects it has views of.`)
-  const combos = checkCombos(content, aspects, conditions)
+  const combos = checkCombos(content, aspects, conditions, only)
   if (!combos.length) throw fail(400, 'conditions: The deck has no rendering of these aspects under these conditions.')
   if (new Set(combos.map(c => c.targetTypeId)).size < 2) {
     throw fail(400, 'aspects: These aspects and conditions show fewer than two target types; a check needs at least two.')
@@ -169,12 +176,13 @@ function dueAtOf(dueDate: string | null | undefined, nowMs: number): number | nu
 
 export function createCheck(sqlite: Database, actor: Actor, input: CheckInput, nowMs = Date.now()): CheckView {
   const content = requireOwnDeckForCheck(sqlite, actor, input.deckId)
-  assertDrawable(content, input.aspects, input.conditions)
+  const only = input.targetTypeIds ? [...new Set(input.targetTypeIds)] : null
+  assertDrawable(content, input.aspects, input.conditions, only)
   const dueAt = dueAtOf(input.dueDate, nowMs)
   const id = newId()
-  sqlite.prepare(`INSERT INTO checks (id, deck_id, title, sighting_count, exposure_ms, conditions, aspects, pass_mark, created_by, due_at, created_at, updated_at)
-    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(id, input.deckId, input.title, input.sightingCount, input.exposureMs,
-    JSON.stringify(input.conditions), JSON.stringify(input.aspects), input.passMark, actor.id, dueAt, nowMs, nowMs)
+  sqlite.prepare(`INSERT INTO checks (id, deck_id, title, sighting_count, exposure_ms, conditions, aspects, pass_mark, created_by, due_at, target_type_ids,
+    created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(id, input.deckId, input.title, input.sightingCount, input.exposureMs,
+    JSON.stringify(input.conditions), JSON.stringify(input.aspects), input.passMark, actor.id, dueAt, only && JSON.stringify(only), nowMs, nowMs)
   return toView(checkRow(sqlite, id)!)
 }
 
@@ -212,7 +220,8 @@ export function updateCheck(sqlite: Database, actor: Actor, id: string, patch: C
     const c = requireEditableCheck(sqlite, actor, id, dueDateOnly)
     const aspects = patch.aspects ?? JSON.parse(c.aspects) as string[]
     const conditions = patch.conditions ?? JSON.parse(c.conditions) as string[]
-    if (patch.aspects || patch.conditions) assertDrawable(loadDrillContent(sqlite, c.deckId)!, aspects, conditions)
+    const only = c.targetTypeIds === null ? null : JSON.parse(c.targetTypeIds) as string[]
+    if (patch.aspects || patch.conditions) assertDrawable(loadDrillContent(sqlite, c.deckId)!, aspects, conditions, only)
     const dueAt = patch.dueDate === undefined ? c.dueAt : dueAtOf(patch.dueDate, nowMs)
     sqlite.prepare(`UPDATE checks SET title = ?, sighting_count = ?, exposure_ms = ?, conditions = ?, aspects = ?, pass_mark = ?, due_at = ?, updated_at = ?
       WHERE id = ?`).run(patch.title ?? c.title, patch.sightingCount ?? c.sightingCount, patch.exposureMs ?? c.exposureMs,
@@ -339,7 +348,8 @@ export function startCheckAttempt(sqlite: Database, actor: Actor, checkId: strin
     const taken = sqlite.prepare(`SELECT 1 FROM check_attempts WHERE check_id = ? AND user_id = ? AND status <> 'reset'`).get(checkId, actor.id)
     if (taken) throw fail(409, CHECK_RETAKE_MESSAGE)
     const content = loadDrillContent(sqlite, c.deckId)!
-    const combos = checkCombos(content, JSON.parse(c.aspects) as string[], JSON.parse(c.conditions) as string[])
+    const only = c.targetTypeIds === null ? null : JSON.parse(c.targetTypeIds) as string[]
+    const combos = checkCombos(content, JSON.parse(c.aspects) as string[], JSON.parse(c.conditions) as string[], only)
     if (new Set(combos.map(x => x.targetTypeId)).size < 2) {
       throw fail(409, 'The deck no longer has views for this check\'s aspects and conditions; ask your instructor.')
     }

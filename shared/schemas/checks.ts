@@ -31,7 +31,10 @@ const checkFields = {
 // The day by which a crew should have taken the check (a calendar date, ISO 8601), or null for none.
 const DueDate = z.iso.date({ message: 'Give the due date as a date (YYYY-MM-DD), or leave it empty.' }).nullable()
 
-export const CheckBody = z.object({ deckId: Id, ...checkFields, dueDate: DueDate.optional() }).strict()
+// A check may show only some of the deck's target types (e.g. the crew's worst look-alike pairs).
+const TargetTypeIds = z.array(Id, { message: 'Give targetTypeIds as a list of target type ids.' }).min(2, 'Choose at least two target types.').max(20, 'Choose at most 20 target types.')
+
+export const CheckBody = z.object({ deckId: Id, ...checkFields, dueDate: DueDate.optional(), targetTypeIds: TargetTypeIds.optional() }).strict()
 export const CheckPatch = z.object({ ...checkFields, dueDate: DueDate }).partial().strict()
   .refine(b => Object.keys(b).length > 0, { message: 'Send at least one field to change.' })
 
@@ -57,6 +60,8 @@ export interface CheckView {
   dueDate: string | null
   // set once retired: no longer offered, kept with its results
   retiredAt: number | null
+  // only these target types of the deck are shown, or null for all
+  targetTypeIds: string[] | null
 }
 
 export interface AttemptSummary {

@@ -65,3 +65,32 @@ describe('checks (issue 17, item 7)', () => {
     await context.close()
   })
 })
+
+describe('from confusions to teaching (issue 17, item 6)', () => {
+  it('shows the worst pairs side by side with their pictures and features, and makes a short check of them in one click', async () => {
+    const { context, page } = await newPage(browser, DESKTOP)
+    await signIn(page, 'instructor@glint.demo')
+    const deck = readDb(db => db.prepare(`SELECT d.id FROM decks d JOIN users u ON u.id = d.owner_id WHERE u.email = 'instructor@glint.demo' AND d.status = 'published' ORDER BY d.title`).pluck().get()) as string
+    await page.goto(`/confusions/${deck}`)
+    await page.getByLabel('Period').selectOption('365')
+    const pairs = page.getByTestId('side-by-side')
+    await expect.poll(() => pairs.count()).toBeGreaterThan(0)
+    const first = pairs.first()
+    // Two types, each with its picture loaded and its features listed.
+    expect(await first.getByRole('heading', { level: 3 }).count()).toBe(2)
+    await expect.poll(() => first.evaluate(el => [...el.querySelectorAll('img')].filter(i => i.complete && i.naturalWidth > 0).length)).toBe(2)
+    expect(await first.locator('dt').count()).toBeGreaterThan(1)
+    await first.scrollIntoViewIfNeeded()
+    await shot(page, 'confusions-side-by-side')
+    const before = readDb(db => db.prepare('SELECT count(*) FROM checks WHERE deck_id = ?').pluck().get(deck)) as number
+    await page.getByRole('button', { name: 'Make a short check of these pairs' }).click()
+    await expect.poll(() => page.getByRole('status').filter({ hasText: 'Defined' }).count()).toBe(1)
+    const made = readDb(db => db.prepare('SELECT target_type_ids AS ids, sighting_count AS n FROM checks WHERE deck_id = ? ORDER BY created_at DESC LIMIT 1').get(deck) as { ids: string, n: number })
+    expect(readDb(db => db.prepare('SELECT count(*) FROM checks WHERE deck_id = ?').pluck().get(deck))).toBe(before + 1)
+    const shownNames = await pairs.getByRole('heading', { level: 3 }).allTextContents()
+    const storedNames = readDb(db => (JSON.parse(made.ids) as string[]).map(id => db.prepare('SELECT name FROM target_types WHERE id = ?').pluck().get(id) as string))
+    expect(new Set(storedNames)).toEqual(new Set(shownNames.map(n => n.trim())))
+    expect(made.n).toBe(10)
+    await context.close()
+  })
+})

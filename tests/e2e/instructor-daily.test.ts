@@ -169,3 +169,55 @@ describe('checks: a due date, editable until taken, retired afterwards, audited 
     expect(readDb(db => db.prepare('SELECT count(*) FROM check_attempts WHERE check_id = ?').pluck().get(made.id))).toBe(1)
   })
 })
+
+describe('from confusions to teaching (issue 17, item 6)', () => {
+  it('puts the worst pair side by side at the aspect where it is confused most, with features and a picture', async () => {
+    const instructor = await signedIn('instructor@glint.demo')
+    const deck = readDb(db => db.prepare(`SELECT d.id FROM decks d JOIN users u ON u.id = d.owner_id WHERE u.email = 'instructor@glint.demo' AND d.status = 'published' ORDER BY d.title`).pluck().get()) as string
+    const r = await instructor.get(`/api/decks/${deck}/confusions?days=365`)
+    expect(r.status, r.text).toBe(200)
+    expect(r.body.sideBySide.length).toBeGreaterThan(0)
+    // The oracle, straight from the calls table: the most frequent (type, called type, aspect) among
+    // wrong drill calls of the deck by its crews' members in the period.
+    const top = readDb(db => db.prepare(`SELECT target_type_id AS t, called_type_id AS c, aspect, count(*) AS n FROM calls
+      WHERE deck_id = ? AND kind = 'watch' AND called_type_id IS NOT NULL AND called_type_id <> target_type_id AND called_at >= ?
+      AND user_id IN (SELECT m.user_id FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id WHERE dc.deck_id = ?)
+      GROUP BY 1, 2, 3 ORDER BY n DESC`).all(deck, Date.now() - 365 * DAY, deck) as { t: string, c: string, aspect: string, n: number }[])
+    const first = r.body.sideBySide[0]
+    expect(first.count).toBe(top[0]!.n)
+    const tied = top.filter(x => x.n === top[0]!.n)
+    expect(tied.some(x => x.t === first.truth.id && x.c === first.called.id && x.aspect === first.aspect)).toBe(true)
+    for (const side of [first.truth, first.called]) {
+      const stored = readDb(db => db.prepare('SELECT name, features FROM target_types WHERE id = ?').get(side.id) as { name: string, features: string })
+      expect(side.name).toBe(stored.name)
+      expect(side.features).toEqual(JSON.parse(stored.features))
+      expect(side.imageUrl).toMatch(/^\/images\/[a-f0-9]{64}\.webp$/)
+      expect((await instructor.get(side.imageUrl)).status).toBe(200)
+    }
+  })
+
+  it('makes a check that shows only the chosen target types, and refuses a list outside the deck or of one type', async () => {
+    const pair = [types[2]!.id, types[3]!.id]
+    const made = await owner.client.post('/api/checks', {
+      deckId, title: 'Two look-alikes only', sightingCount: 6, exposureMs: 500, conditions: ['sunlit', 'haze'], aspects: ['beam'], passMark: 0.8, targetTypeIds: pair,
+    })
+    expect(made.status, made.text).toBe(201)
+    expect(made.body.targetTypeIds).toEqual(pair)
+    const trainee = await directPerson(['trainee'], crewId)
+    const issued = await trainee.client.post(`/api/checks/${made.body.id}/attempts`)
+    expect(issued.status, issued.text).toBe(201)
+    const shown = readDb(db => db.prepare('SELECT DISTINCT target_type_id FROM sightings WHERE watch_id = ?').pluck().all(issued.body.id) as string[])
+    expect(shown.length).toBeGreaterThan(0)
+    for (const t of shown) expect(pair).toContain(t)
+    const foreign = await owner.client.post('/api/checks', {
+      deckId, title: 'Foreign type', sightingCount: 6, exposureMs: 500, conditions: ['sunlit'], aspects: ['beam'], passMark: 0.8, targetTypeIds: [types[0]!.id, 'x'.repeat(21)],
+    })
+    expect(foreign.status).toBe(400)
+    expect(foreign.body.message).toBe('targetTypeIds: Choose target types of this deck.')
+    const one = await owner.client.post('/api/checks', {
+      deckId, title: 'One type', sightingCount: 6, exposureMs: 500, conditions: ['sunlit'], aspects: ['beam'], passMark: 0.8, targetTypeIds: [types[0]!.id, types[0]!.id],
+    })
+    expect(one.status).toBe(400)
+    expect(one.body.message).toMatch(/^targetTypeIds: Choose at least two target types/)
+  })
+})

@@ -1,0 +1,1 @@
+ALTER TABLE `checks` ADD `target_type_ids` text;

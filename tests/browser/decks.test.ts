@@ -39,6 +39,21 @@ describe('the deck builder at desktop size', () => {
     await page.waitForURL(/\/decks$/)
     await page.getByRole('link', { name: /Coastal air picture/ }).click()
     await page.getByRole('heading', { level: 1, name: 'Coastal air picture' }).waitFor()
+    // Issue 17 item 5: a deck of 10 types starts folded, one line a type; "Open all" shows every grid.
+    const types = new Database(inject('dbPath'), { readonly: true }).prepare(`SELECT t.name FROM target_types t JOIN decks d ON d.id = t.deck_id
+      WHERE d.title = 'Coastal air picture' ORDER BY t.name`).pluck().all() as string[]
+    expect(await page.getByRole('list', { name: /in six conditions$/ }).count()).toBe(0)
+    expect(await page.getByRole('article').count()).toBe(types.length)
+    const foldedHeight = await page.evaluate(() => document.body.scrollHeight)
+    await shot(page, 'decks-builder-folded')
+    await page.getByRole('searchbox', { name: 'Find a target type' }).fill('taskav')
+    await expect.poll(() => page.getByRole('article').count()).toBe(types.filter(n => n.toLowerCase().includes('taskav')).length)
+    expect(await page.getByRole('status').filter({ hasText: 'for "taskav"' }).textContent()).toContain('Showing 1 of 10 target types for "taskav".')
+    expect(await page.getByRole('list', { name: /^Taskavel, .* in six conditions$/ }).count()).toBeGreaterThan(0)
+    await shot(page, 'decks-builder-search')
+    await page.getByRole('searchbox', { name: 'Find a target type' }).fill('')
+    await page.getByRole('button', { name: 'Open all' }).click()
+    expect(await page.evaluate(() => document.body.scrollHeight)).toBeGreaterThan(foldedHeight * 3)
 
     const grid = page.getByRole('list', { name: 'Taskavel, Plan (top), in six conditions' })
     await grid.waitFor()

@@ -2,7 +2,7 @@
 // anyone takes them and retired after, each step asserted in the database.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { DESKTOP, launch, newPage, shot, signIn } from '../support/browser'
+import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
 import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
 
 let browser: Browser
@@ -91,6 +91,21 @@ describe('from confusions to teaching (issue 17, item 6)', () => {
     const storedNames = readDb(db => (JSON.parse(made.ids) as string[]).map(id => db.prepare('SELECT name FROM target_types WHERE id = ?').pluck().get(id) as string))
     expect(new Set(storedNames)).toEqual(new Set(shownNames.map(n => n.trim())))
     expect(made.n).toBe(10)
+    await context.close()
+  })
+})
+
+describe('the changed instructor screens at 390x844', () => {
+  it('fit the phone without sideways scrolling (WCAG 2.2 SC 1.4.10 Reflow: 320 CSS px, no two-dimensional scrolling)', async () => {
+    const { context, page } = await newPage(browser, PHONE)
+    await signIn(page, 'instructor@glint.demo')
+    const deck = readDb(db => db.prepare(`SELECT d.id FROM decks d JOIN users u ON u.id = d.owner_id WHERE u.email = 'instructor@glint.demo' AND d.status = 'published' ORDER BY d.title`).pluck().get()) as string
+    for (const [path, name] of [[`/decks/${deck}`, 'decks-builder-phone'], ['/checks', 'checks-instructor-phone'], [`/confusions/${deck}`, 'confusions-side-by-side-phone']] as const) {
+      await page.goto(path)
+      await page.waitForLoadState('networkidle')
+      expect(await page.evaluate(() => document.documentElement.scrollWidth), path).toBeLessThanOrEqual(PHONE.width)
+      await shot(page, name)
+    }
     await context.close()
   })
 })

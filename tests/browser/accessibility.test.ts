@@ -138,3 +138,28 @@ for (const who of ['anon', 'trainee', 'instructor', 'lead', 'admin'] as const) {
     }
   })
 }
+
+describe('the confirmation dialog (issue 17, item 4): WCAG 2.2 AA with axe-core', () => {
+  for (const theme of ['day', 'night'] as const) {
+    it(`has no violation while open, in the ${theme} theme, and takes focus on its safe choice`, async () => {
+      const context = await contextFor(DESKTOP, theme)
+      const page = await context.newPage()
+      await signIn(page, EMAIL.instructor)
+      await page.request.patch('/api/auth/me', { data: { nightMode: theme }, headers: { origin: inject('baseUrl') } })
+      const found = await audit(page, pages.instructor[2]!, theme)
+      await page.getByRole('button', { name: 'Archive' }).click()
+      const dialog = page.getByRole('dialog', { name: 'Archive this deck?' })
+      await dialog.waitFor()
+      // WCAG 2.2 SC 2.4.3 Focus Order: focus moves into the dialog, onto the choice that loses nothing.
+      expect(await page.evaluate(() => document.activeElement?.textContent?.trim())).toBe('Keep it')
+      await page.evaluate(axe.source)
+      const options = { runOnly: { type: 'tag', values: WCAG_TAGS }, rules: theme === 'night' ? { 'color-contrast': { enabled: false } } : {}, resultTypes: ['violations'] }
+      const results = await page.evaluate(o => (window as unknown as { axe: { run: (c: unknown, o: unknown) => Promise<AxeResults> } }).axe.run({ include: [['dialog']] }, o), options)
+      found.push(...results.violations.flatMap(v => v.nodes.map(n => `dialog · ${v.id} · ${n.target.join(' ')}`)))
+      await page.keyboard.press('Escape')
+      await dialog.waitFor({ state: 'hidden' })
+      await context.close()
+      expect(found).toEqual([])
+    })
+  }
+})

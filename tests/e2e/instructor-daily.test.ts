@@ -1,7 +1,7 @@
 // The instructor's daily work (issue 17): nothing lost by one click (a removed view waits in the
 // deck's trash, restorable, purged after its retention period), drafts shown to nobody but their
 // instructors, checks with a due date that are editable until taken and retired afterwards.
-import { existsSync } from 'node:fs'
+import { existsSync, readFileSync } from 'node:fs'
 import { join } from 'node:path'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { crewIdOf, signedIn } from '../support/client'
@@ -219,5 +219,33 @@ describe('from confusions to teaching (issue 17, item 6)', () => {
     })
     expect(one.status).toBe(400)
     expect(one.body.message).toMatch(/^targetTypeIds: Choose at least two target types/)
+  })
+})
+
+describe('the same picture uploaded again while its view waits in the trash', () => {
+  it('is refused with a sentence that points to the removed views, and the removed view comes back from there', async () => {
+    const upload = async () => {
+      const f = new FormData()
+      f.set('targetTypeId', types[4]!.id)
+      f.set('aspect', 'plan')
+      f.append('files', new Blob([readFileSync('tests/fixtures/images/valid.png')], { type: 'image/png' }), 'valid.png')
+      const r = await owner.client.post(`/api/decks/${deckId}/views`, f)
+      expect(r.status, r.text).toBe(202)
+      const until = Date.now() + 60_000
+      while (Date.now() < until) {
+        const job = await owner.client.get(`/api/jobs/${r.body.jobs[0].id}`)
+        if (job.body.state === 'done' || job.body.state === 'failed') return job.body as { state: string, message: string | null, viewId: string | null }
+        await new Promise(ok => setTimeout(ok, 100))
+      }
+      throw new Error('the upload did not finish')
+    }
+    const first = await upload()
+    expect(first.state, first.message ?? '').toBe('done')
+    expect((await owner.client.del(`/api/views/${first.viewId}`)).status).toBe(200)
+    const again = await upload()
+    expect(again.state).toBe('failed')
+    expect(again.message).toMatch(/waits in the deck's removed views \(put it back from there\)/)
+    expect((await owner.client.post(`/api/views/${first.viewId}/restore`)).status).toBe(200)
+    expect(viewsOf(types[4]!.id).map(v => v.id)).toContain(first.viewId)
   })
 })

@@ -161,7 +161,8 @@ export const variants = sqliteTable('variants', {
   bytes: integer('bytes').notNull(),
   contrast: real('contrast').notNull(),
   file: text('file').notNull(),
-}, t => [index('variants_view_idx').on(t.viewId), uniqueIndex('variants_file_uq').on(t.file)])
+  // A file may be named by several variants: a target type copied to another deck shares its renderings.
+}, t => [index('variants_view_idx').on(t.viewId), index('variants_file_idx').on(t.file)])
 
 export const jobs = sqliteTable('jobs', {
   id: text('id').primaryKey(),

@@ -259,7 +259,7 @@ export async function deleteDeck(actor: Actor, deck: DeckRow) {
     tx.delete(tables.jobs).where(eq(tables.jobs.deckId, deck.id)).run()
     tx.delete(tables.decks).where(eq(tables.decks.id, deck.id)).run()
   })
-  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, unusedFiles(files))
   audit(actor, 'deck.delete', 'deck', deck.id, { title: deck.title })
 }
 
@@ -381,7 +381,7 @@ export async function deleteTargetType(actor: Actor, type: TypeRow) {
   if (typeDrilled(type.id)) throw conflict('This target type has been drilled, so its history must stay. Archive the deck instead.')
   const files = [...filesOf([type.id]), ...trashedFilesOfTypes([type.id])]
   useDb().delete(tables.targetTypes).where(eq(tables.targetTypes.id, type.id)).run()
-  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, unusedFiles(files))
   audit(actor, 'target-type.delete', 'target_type', type.id, { name: type.name })
 }
 
@@ -412,11 +412,13 @@ function trashFiles(rows: { snapshot: { variants: Record<string, unknown>[] } }[
   return rows.flatMap(r => r.snapshot.variants.map(v => String(v.file)))
 }
 
-// Files of trashed views that no stored rendering uses (a picture uploaded again has the same name).
+// Of these files, those no rendering and no removed view names any more: a file is shared by the
+// copies of a target type (copyTargetType), so it is deleted only with its last user.
 function unusedFiles(files: string[]) {
   if (!files.length) return []
   const used = new Set(useDb().select({ file: tables.variants.file }).from(tables.variants).where(inArray(tables.variants.file, files)).all().map(v => v.file))
-  return files.filter(f => !used.has(f))
+  const trashed = new Set(useSqlite().prepare(`SELECT DISTINCT json_extract(v.value, '$.file') FROM removed_views r, json_each(r.snapshot, '$.variants') v`).pluck().all() as string[])
+  return [...new Set(files)].filter(f => !used.has(f) && !trashed.has(f))
 }
 
 /** Purges removed views older than the retention period, with their files. */
@@ -481,9 +483,6 @@ export async function requireOwnTrashedView(event: H3Event, viewId: string, nowM
 export function restoreView(actor: Actor, row: typeof tables.removedViews.$inferSelect) {
   const db = useDb()
   const variants = row.snapshot.variants as unknown as VariantRow[]
-  if (unusedFiles(variants.map(v => v.file)).length !== variants.length) {
-    throw conflict('This picture was uploaded again for the deck, so the removed copy is not needed.')
-  }
   db.transaction((tx) => {
     tx.insert(tables.views).values(row.snapshot.view as unknown as ViewRow).run()
     for (const v of variants) tx.insert(tables.variants).values(v).run()
@@ -494,10 +493,48 @@ export function restoreView(actor: Actor, row: typeof tables.removedViews.$infer
 
 /** Does the actor manage (own, or administer) the deck that uses this rendering? See managesDeck. */
 export function fileVisibleTo(actor: Actor, file: string) {
-  const row = useDb().select({ deck: tables.decks }).from(tables.variants)
+  const rows = useDb().select({ deck: tables.decks }).from(tables.variants)
     .innerJoin(tables.views, eq(tables.views.id, tables.variants.viewId))
     .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.views.targetTypeId))
     .innerJoin(tables.decks, eq(tables.decks.id, tables.targetTypes.deckId))
-    .where(eq(tables.variants.file, file)).get()
-  return !!row && managesDeck(actor, row.deck)
+    .where(eq(tables.variants.file, file)).all()
+  return rows.some(row => managesDeck(actor, row.deck))
+}
+
+// ---------------------------------------------------------------- the instructor's library
+
+/** Every target type of the instructor's own decks, to copy into another deck. */
+export function typeLibrary(actor: Actor) {
+  return useSqlite().prepare(`SELECT t.id, t.name, t.category, d.id AS deckId, d.title AS deckTitle,
+    (SELECT count(*) FROM views v WHERE v.target_type_id = t.id) AS views
+    FROM target_types t JOIN decks d ON d.id = t.deck_id WHERE d.owner_id = ? ORDER BY t.name, d.title`).all(actor.id) as
+    { id: string, name: string, category: string, deckId: string, deckTitle: string, views: number }[]
+}
+
+/**
+ * Copies one of the instructor's target types, with its views, into this deck: the views' renderings
+ * are shared (new rows naming the same files), so nothing is uploaded or rendered again. Look-alikes
+ * belong to a deck and are not copied.
+ */
+export function copyTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
+  const category = typeCategoryFor(deck, source.category as TypeCategory)
+  const db = useDb()
+  const views = db.select().from(tables.views).where(eq(tables.views.targetTypeId, source.id)).all()
+  const variants = views.length ? db.select().from(tables.variants).where(inArray(tables.variants.viewId, views.map(v => v.id))).all() : []
+  const id = newId()
+  try {
+    db.transaction((tx) => {
+      tx.insert(tables.targetTypes).values({ id, deckId: deck.id, name: source.name, category, affiliation: source.affiliation, sizeM: source.sizeM, features: source.features }).run()
+      for (const v of views) {
+        const viewId = newId()
+        tx.insert(tables.views).values({ id: viewId, targetTypeId: id, aspect: v.aspect, sourceSha: v.sourceSha, width: v.width, height: v.height }).run()
+        for (const x of variants.filter(x => x.viewId === v.id)) {
+          tx.insert(tables.variants).values({ ...x, id: newId(), viewId }).run()
+        }
+      }
+    })
+  }
+  catch (e) { uniqueName(e) }
+  audit(actor, 'target-type.copy', 'target_type', id, { deckId: deck.id, from: source.id, views: views.length })
+  return id
 }

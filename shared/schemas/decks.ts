@@ -121,6 +121,11 @@ export const TargetTypePatch = z.object({
 }).strict()
 export type TargetTypePatch = z.infer<typeof TargetTypePatch>
 
+// Copying one of the instructor's target types (with its views) into a deck.
+export const TypeCopyBody = z.object({
+  targetTypeId: Id,
+}).strict()
+
 /** A sentence for a feature record that does not fit its category, or null when it fits. */
 export function featuresProblem(category: TypeCategory, features: Record<string, string>): string | null {
   const allowed: readonly string[] = FEATURE_KEYS[category]

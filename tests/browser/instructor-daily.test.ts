@@ -109,3 +109,35 @@ describe('the changed instructor screens at 390x844', () => {
     await context.close()
   })
 })
+
+describe('the library of target types (issue 17, item 5)', () => {
+  it('copies a type with its views from another own deck in one step, and the new deck can be deleted without touching the original', async () => {
+    const { context, page } = await newPage(browser, DESKTOP)
+    await signIn(page, 'instructor@glint.demo')
+    await page.goto('/decks')
+    const title = `Library trial ${Date.now().toString(36)}`
+    await page.getByLabel('Title').fill(title)
+    await page.getByRole('button', { name: 'Create the deck' }).click()
+    await page.waitForURL(/\/decks\/[\w-]{8,}$/)
+    await page.getByRole('heading', { level: 1, name: title }).waitFor()
+    const source = readDb(db => db.prepare(`SELECT t.id, t.name, d.title, (SELECT count(*) FROM views v WHERE v.target_type_id = t.id) AS n FROM target_types t
+      JOIN decks d ON d.id = t.deck_id WHERE t.name = 'Taskavel'`).get() as { id: string, name: string, title: string, n: number })
+    await page.getByLabel('Target type', { exact: true }).selectOption({ label: `Taskavel (${source.title}, ${source.n} views)` })
+    await shot(page, 'decks-library-copy')
+    await page.getByRole('button', { name: 'Copy into this deck' }).click()
+    const card = page.getByRole('article', { name: 'Taskavel' })
+    await card.waitFor()
+    await expect.poll(() => card.getByRole('list', { name: /^Taskavel, .*, in six conditions$/ }).count()).toBe(source.n)
+    const deckId = page.url().split('/').pop()!
+    const copies = readDb(db => db.prepare(`SELECT x.file FROM variants x JOIN views v ON v.id = x.view_id JOIN target_types t ON t.id = v.target_type_id
+      WHERE t.deck_id = ? ORDER BY x.file`).pluck().all(deckId) as string[])
+    const originals = readDb(db => db.prepare(`SELECT x.file FROM variants x JOIN views v ON v.id = x.view_id WHERE v.target_type_id = ? ORDER BY x.file`).pluck().all(source.id) as string[])
+    expect(copies).toEqual(originals)
+    await page.getByRole('button', { name: 'Delete' }).click()
+    await page.getByRole('dialog', { name: 'Delete this deck?' }).getByRole('button', { name: 'Delete the deck' }).click()
+    await page.waitForURL(/\/decks$/)
+    // The original's pictures are still served to their owner.
+    for (const f of originals.slice(0, 3)) expect((await page.request.get(`/images/${f}`)).status(), f).toBe(200)
+    await context.close()
+  })
+})

@@ -109,6 +109,10 @@ const REQUESTS: Record<string, Build> = {
     return { params: { view } }
   },
   'GET /api/decks/:deck/trash': s => ({ params: { deck: s.draftDeck } }),
+  'POST /api/decks/:deck/type-copies': async s => ({
+    params: { deck: (await ok(s.instructor.client.post('/api/decks', { title: unique('Matrix copy target'), category: 'aircraft' }), 'deck')).id },
+    body: { targetTypeId: s.draftType },
+  }),
   'POST /api/views/:view/restore': (s) => {
     // A view in the draft deck's trash, as DELETE /api/views/:view leaves it.
     const view = randomBytes(16).toString('base64url')

@@ -11,7 +11,7 @@ export default {
       colors: {
         ink: { DEFAULT: '#0f2a3d', soft: '#3b5466', faint: '#6b8190' },
         paper: { DEFAULT: '#f7f9fa', raised: '#ffffff', sunk: '#e8eef2' },
-        signal: { DEFAULT: '#c25e00', strong: '#9a4a00', soft: '#fbe9d7' },
+        signal: { DEFAULT: '#a85000', strong: '#7f3d00', soft: '#fbe9d7' },
         ok: { DEFAULT: '#1f6f43', soft: '#dcf1e4' },
         warn: { DEFAULT: '#8a5a00', soft: '#fff1cc' },
         bad: { DEFAULT: '#a4262c', soft: '#fbe3e4' },

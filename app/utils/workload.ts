@@ -5,7 +5,7 @@ import type { DeckWorkload } from '#shared/types/drill'
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 
 /**
- * "7 due · 1 new", "4 sightings left in today's watch", or what there is with nothing due; with
+ * "7 to refresh · 1 to meet", "4 sightings left in today's watch", or what there is with nothing due; with
  * `relative` (useDates().relative) the next due time is said in words.
  */
 export function workloadText(d: DeckWorkload, relative?: (ms: number) => string): string {
@@ -14,5 +14,5 @@ export function workloadText(d: DeckWorkload, relative?: (ms: number) => string)
     const next = relative && d.nextDueAt ? ` · next due ${relative(d.nextDueAt)}` : ''
     return `Nothing due${next}${d.practice ? ` · practice of ${plural(d.practice, 'sighting')} available` : ''}`
   }
-  return `${d.due} due · ${d.new} new`
+  return `${d.due} to refresh · ${d.new} to meet`
 }

@@ -144,6 +144,18 @@ export const views = sqliteTable('views', {
   ...timestamps,
 }, t => [index('views_type_idx').on(t.targetTypeId)])
 
+// A removed view waits here (its row and renderings' rows as they were, the files kept on disk) for
+// VIEW_TRASH_DAYS, so that its instructor can restore it; then it is purged with its files.
+export const removedViews = sqliteTable('removed_views', {
+  id: text('id').primaryKey(), // the view's own id, reused on restore
+  deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
+  targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  aspect: text('aspect').notNull(),
+  snapshot: text('snapshot', { mode: 'json' }).notNull().$type<{ view: Record<string, unknown>, variants: Record<string, unknown>[] }>(),
+  removedBy: text('removed_by').references(() => users.id, { onDelete: 'set null' }),
+  removedAt: integer('removed_at').notNull(),
+}, t => [index('removed_views_deck_idx').on(t.deckId, t.removedAt)])
+
 // One rendering of a view under one condition at one size; `file` is a content hash name.
 export const variants = sqliteTable('variants', {
   id: text('id').primaryKey(),
@@ -154,7 +166,8 @@ export const variants = sqliteTable('variants', {
   bytes: integer('bytes').notNull(),
   contrast: real('contrast').notNull(),
   file: text('file').notNull(),
-}, t => [index('variants_view_idx').on(t.viewId), uniqueIndex('variants_file_uq').on(t.file)])
+  // A file may be named by several variants: a target type copied to another deck shares its renderings.
+}, t => [index('variants_view_idx').on(t.viewId), index('variants_file_idx').on(t.file)])
 
 export const jobs = sqliteTable('jobs', {
   id: text('id').primaryKey(),
@@ -318,6 +331,12 @@ export const checks = sqliteTable('checks', {
   aspects: text('aspects', { mode: 'json' }).notNull().$type<string[]>(),
   passMark: real('pass_mark').notNull(),
   createdBy: text('created_by').notNull().references(() => users.id),
+  // The day by which the crew should have taken it (end of that UTC day), or none.
+  dueAt: integer('due_at'),
+  // Retired: no longer offered to take, kept with its attempts and results.
+  retiredAt: integer('retired_at'),
+  // Only these target types of the deck are shown (JSON list), or null for all of them.
+  targetTypeIds: text('target_type_ids', { mode: 'json' }).$type<string[]>(),
   ...timestamps,
 })
 

@@ -46,11 +46,14 @@ interface CheckRow {
   createdBy: string
   createdAt: number
   attempts: number
+  dueAt: number | null
+  retiredAt: number | null
+  targetTypeIds: string | null
 }
 
 const CHECK_SELECT = `SELECT c.id, c.deck_id AS deckId, d.title AS deckTitle, d.owner_id AS deckOwner, d.status AS deckStatus, c.title,
   c.sighting_count AS sightingCount, c.exposure_ms AS exposureMs, c.conditions, c.aspects, c.pass_mark AS passMark,
-  c.created_by AS createdBy, c.created_at AS createdAt, (SELECT count(*) FROM check_attempts a WHERE a.check_id = c.id) AS attempts
+  c.created_by AS createdBy, c.created_at AS createdAt, c.due_at AS dueAt, c.retired_at AS retiredAt, c.target_type_ids AS targetTypeIds, (SELECT count(*) FROM check_attempts a WHERE a.check_id = c.id) AS attempts
   FROM checks c JOIN decks d ON d.id = c.deck_id`
 
 interface AttemptRow {
@@ -83,6 +86,8 @@ function toView(r: CheckRow): CheckView {
     id: r.id, deckId: r.deckId, deckTitle: r.deckTitle, title: r.title, sightingCount: r.sightingCount, exposureMs: r.exposureMs,
     conditions: JSON.parse(r.conditions) as string[], aspects: JSON.parse(r.aspects) as string[], passMark: r.passMark,
     createdBy: r.createdBy, createdAt: r.createdAt, attempts: r.attempts,
+    dueDate: r.dueAt === null ? null : new Date(r.dueAt).toISOString().slice(0, 10), retiredAt: r.retiredAt,
+    targetTypeIds: r.targetTypeIds === null ? null : JSON.parse(r.targetTypeIds) as string[],
   }
 }
 
@@ -128,8 +133,8 @@ function leadsAttempt(sqlite: Database, actor: Actor, a: AttemptRow) {
 // ---------------------------------------------------------------- definitions
 
 /** Which (type, aspect, condition) combinations the deck can show under the check's settings. */
-function checkCombos(content: DeckContent, aspects: readonly string[], conditions: readonly string[]) {
-  const types = new Set(content.types.map(t => t.id))
+function checkCombos(content: DeckContent, aspects: readonly string[], conditions: readonly string[], only: readonly string[] | null = null) {
+  const types = new Set(content.types.map(t => t.id).filter(id => !only || only.includes(id)))
   const out = new Map<string, { targetTypeId: string, aspect: string, condition: string, variants: ContentVariant[][] }>()
   for (const v of viewsWithRenderings(content)) {
     if (!types.has(v.targetTypeId) || !aspects.includes(v.aspect)) continue
@@ -146,11 +151,16 @@ function checkCombos(content: DeckContent, aspects: readonly string[], condition
 }
 
 // A check needs a view at every chosen aspect and at least two target types to show.
-function assertDrawable(content: DeckContent, aspects: readonly string[], conditions: readonly string[]) {
+function assertDrawable(content: DeckContent, aspects: readonly string[], conditions: readonly string[], only: readonly string[] | null = null) {
+  if (only) {
+    const known = new Set(content.types.map(t => t.id))
+    if (only.some(id => !known.has(id))) throw fail(400, 'targetTypeIds: Choose target types of this deck.')
+    if (new Set(only).size < 2) throw fail(400, 'targetTypeIds: Choose at least two target types; a check needs two to tell apart.')
+  }
   const rendered = viewsWithRenderings(content)
   const missing = aspects.filter(a => !rendered.some(v => v.aspect === a))
   if (missing.length) throw fail(400, `aspects: The deck has no view at ${missing.join(', ')}; choose aspects it has views of.`)
-  const combos = checkCombos(content, aspects, conditions)
+  const combos = checkCombos(content, aspects, conditions, only)
   if (!combos.length) throw fail(400, 'conditions: The deck has no rendering of these aspects under these conditions.')
   if (new Set(combos.map(c => c.targetTypeId)).size < 2) {
     throw fail(400, 'aspects: These aspects and conditions show fewer than two target types; a check needs at least two.')
@@ -162,16 +172,28 @@ function requireOwnDeckForCheck(sqlite: Database, actor: Actor, deckId: string):
   if (!deck) throw fail(404, 'deckId: No such deck.')
   if (deck.ownerId !== actor.id) throw fail(403, 'Only the deck\'s own instructor defines checks on it.')
   if (deck.status === 'archived') throw fail(409, 'This deck is archived; checks are defined on live decks.')
+  if (deck.status === 'draft') throw fail(409, 'deckId: This deck is a draft; publish it before defining a check on it.')
   return loadDrillContent(sqlite, deckId)!
+}
+
+// A due date is the end of that UTC day; one already past is refused.
+function dueAtOf(dueDate: string | null | undefined, nowMs: number): number | null {
+  if (!dueDate) return null
+  const dueAt = Date.parse(`${dueDate}T23:59:59.999Z`)
+  if (!Number.isFinite(dueAt)) throw fail(400, 'dueDate: Give the due date as a date (YYYY-MM-DD), or leave it empty.')
+  if (dueAt < nowMs) throw fail(400, 'dueDate: That day is past; choose a due date from today on.')
+  return dueAt
 }
 
 export function createCheck(sqlite: Database, actor: Actor, input: CheckInput, nowMs = Date.now()): CheckView {
   const content = requireOwnDeckForCheck(sqlite, actor, input.deckId)
-  assertDrawable(content, input.aspects, input.conditions)
+  const only = input.targetTypeIds ? [...new Set(input.targetTypeIds)] : null
+  assertDrawable(content, input.aspects, input.conditions, only)
+  const dueAt = dueAtOf(input.dueDate, nowMs)
   const id = newId()
-  sqlite.prepare(`INSERT INTO checks (id, deck_id, title, sighting_count, exposure_ms, conditions, aspects, pass_mark, created_by, created_at, updated_at)
-    VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(id, input.deckId, input.title, input.sightingCount, input.exposureMs,
-    JSON.stringify(input.conditions), JSON.stringify(input.aspects), input.passMark, actor.id, nowMs, nowMs)
+  sqlite.prepare(`INSERT INTO checks (id, deck_id, title, sighting_count, exposure_ms, conditions, aspects, pass_mark, created_by, due_at, target_type_ids,
+    created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(id, input.deckId, input.title, input.sightingCount, input.exposureMs,
+    JSON.stringify(input.conditions), JSON.stringify(input.aspects), input.passMark, actor.id, dueAt, only && JSON.stringify(only), nowMs, nowMs)
   return toView(checkRow(sqlite, id)!)
 }
 
@@ -185,32 +207,56 @@ export function readCheck(sqlite: Database, actor: Actor, id: string): CheckView
   return toView(c)
 }
 
-// Its instructor may change or delete it while nobody has taken it.
-function requireEditableCheck(sqlite: Database, actor: Actor, id: string): CheckRow {
+function requireOwnCheck(sqlite: Database, actor: Actor, id: string): CheckRow {
   const c = checkRow(sqlite, id)
   if (!c) throw noCheck()
   if (!ownsCheck(actor, c)) throw fail(403, 'Only the check\'s own instructor changes it.')
-  if (c.attempts > 0) throw fail(409, 'This check has been taken; it can no longer be changed or deleted. Define a new one.')
+  return c
+}
+
+// Its instructor may change or delete it while nobody has taken it; the due date alone may move
+// until it is retired (it changes no result).
+function requireEditableCheck(sqlite: Database, actor: Actor, id: string, dueDateOnly = false): CheckRow {
+  const c = requireOwnCheck(sqlite, actor, id)
+  if (c.retiredAt !== null) throw fail(409, 'This check is retired; it is kept for its results and no longer changes.')
+  if (c.attempts > 0 && !dueDateOnly) {
+    throw fail(409, 'This check has been taken, so only its due date can change; retire it and define a new one to change the rest.')
+  }
   return c
 }
 
 export function updateCheck(sqlite: Database, actor: Actor, id: string, patch: CheckPatchInput, nowMs = Date.now()): CheckView {
   return sqlite.transaction(() => {
-    const c = requireEditableCheck(sqlite, actor, id)
+    const dueDateOnly = Object.keys(patch).every(k => k === 'dueDate')
+    const c = requireEditableCheck(sqlite, actor, id, dueDateOnly)
     const aspects = patch.aspects ?? JSON.parse(c.aspects) as string[]
     const conditions = patch.conditions ?? JSON.parse(c.conditions) as string[]
-    if (patch.aspects || patch.conditions) assertDrawable(loadDrillContent(sqlite, c.deckId)!, aspects, conditions)
-    sqlite.prepare(`UPDATE checks SET title = ?, sighting_count = ?, exposure_ms = ?, conditions = ?, aspects = ?, pass_mark = ?, updated_at = ?
+    const only = c.targetTypeIds === null ? null : JSON.parse(c.targetTypeIds) as string[]
+    if (patch.aspects || patch.conditions) assertDrawable(loadDrillContent(sqlite, c.deckId)!, aspects, conditions, only)
+    const dueAt = patch.dueDate === undefined ? c.dueAt : dueAtOf(patch.dueDate, nowMs)
+    sqlite.prepare(`UPDATE checks SET title = ?, sighting_count = ?, exposure_ms = ?, conditions = ?, aspects = ?, pass_mark = ?, due_at = ?, updated_at = ?
       WHERE id = ?`).run(patch.title ?? c.title, patch.sightingCount ?? c.sightingCount, patch.exposureMs ?? c.exposureMs,
-      JSON.stringify(conditions), JSON.stringify(aspects), patch.passMark ?? c.passMark, nowMs, id)
+      JSON.stringify(conditions), JSON.stringify(aspects), patch.passMark ?? c.passMark, dueAt, nowMs, id)
     return toView(checkRow(sqlite, id)!)
   }).immediate()
 }
 
 export function deleteCheck(sqlite: Database, actor: Actor, id: string) {
-  sqlite.transaction(() => {
-    requireEditableCheck(sqlite, actor, id)
+  return sqlite.transaction(() => {
+    const c = requireEditableCheck(sqlite, actor, id, true)
+    if (c.attempts > 0) throw fail(409, 'This check has been taken; retire it instead, so its results are kept.')
     sqlite.prepare('DELETE FROM checks WHERE id = ?').run(id)
+    return toView(c)
+  }).immediate()
+}
+
+/** Retires a taken check: nobody can start it again; its attempts and results stay readable. */
+export function retireCheck(sqlite: Database, actor: Actor, id: string, nowMs = Date.now()): CheckView {
+  return sqlite.transaction(() => {
+    const c = requireOwnCheck(sqlite, actor, id)
+    if (c.retiredAt !== null) throw fail(409, 'This check is already retired.')
+    sqlite.prepare('UPDATE checks SET retired_at = ?, updated_at = ? WHERE id = ?').run(nowMs, nowMs, id)
+    return toView(checkRow(sqlite, id)!)
   }).immediate()
 }
 
@@ -239,6 +285,8 @@ export function listChecks(sqlite: Database, actor: Actor): CheckLists {
         passed: a && a.status !== 'reset' && a.passed !== null ? a.passed === 1 : null,
       }
     })
+      // A retired check is no longer offered; one the trainee took stays for its result.
+      .filter(c => c.retiredAt === null || c.status !== 'none')
   }
   if (hasRole(actor, 'lead') && actor.crewIds.length) {
     const crewRows = sqlite.prepare('SELECT id, name FROM crews WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name').all(crews) as { id: string, name: string }[]
@@ -313,10 +361,12 @@ export function startCheckAttempt(sqlite: Database, actor: Actor, checkId: strin
   return sqlite.transaction(() => {
     const c = checkRow(sqlite, checkId)
     if (!c || !assignedToActor(sqlite, actor, c.deckId)) throw noCheck()
+    if (c.retiredAt !== null) throw fail(409, 'This check is retired; your instructor no longer sets it.')
     const taken = sqlite.prepare(`SELECT 1 FROM check_attempts WHERE check_id = ? AND user_id = ? AND status <> 'reset'`).get(checkId, actor.id)
     if (taken) throw fail(409, CHECK_RETAKE_MESSAGE)
     const content = loadDrillContent(sqlite, c.deckId)!
-    const combos = checkCombos(content, JSON.parse(c.aspects) as string[], JSON.parse(c.conditions) as string[])
+    const only = c.targetTypeIds === null ? null : JSON.parse(c.targetTypeIds) as string[]
+    const combos = checkCombos(content, JSON.parse(c.aspects) as string[], JSON.parse(c.conditions) as string[], only)
     if (new Set(combos.map(x => x.targetTypeId)).size < 2) {
       throw fail(409, 'The deck no longer has views for this check\'s aspects and conditions; ask your instructor.')
     }

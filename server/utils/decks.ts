@@ -1,8 +1,8 @@
 // Decks, target types and views: who may see and change them, and their database work.
 import type { H3Event } from 'h3'
-import { and, asc, eq, inArray, or } from 'drizzle-orm'
+import { and, asc, desc, eq, gte, inArray, lt, or } from 'drizzle-orm'
 import { ASPECTS, CONDITIONS } from '#shared/utils/conditions'
-import { featuresProblem } from '#shared/schemas/decks'
+import { featuresProblem, settingsConflict } from '#shared/schemas/decks'
 import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
 import type { Actor } from './gate'
 
@@ -213,7 +213,8 @@ export function deckDrilled(deckId: string) {
 }
 
 function checkSettings(s: DeckSettings) {
-  if (s.hesitationMs >= s.windowMs) throw bad('settings.hesitationMs: The hesitation limit must be shorter than the answer window.')
+  const conflict = settingsConflict(s)
+  if (conflict) throw bad(`${conflict.field}: ${conflict.message}`)
 }
 
 export function createDeck(actor: Actor, body: { title: string, description?: string, category: string, settings?: DeckSettingsPatch }) {
@@ -252,12 +253,13 @@ export function patchDeck(actor: Actor, deck: DeckRow, patch: DeckPatch) {
 export async function deleteDeck(actor: Actor, deck: DeckRow) {
   if (deckDrilled(deck.id)) throw conflict('This deck has been drilled, so its history must stay: archive it instead.')
   const db = useDb()
-  const files = filesOf(db.select({ id: tables.targetTypes.id }).from(tables.targetTypes).where(eq(tables.targetTypes.deckId, deck.id)).all().map(t => t.id))
+  const typeIds = db.select({ id: tables.targetTypes.id }).from(tables.targetTypes).where(eq(tables.targetTypes.deckId, deck.id)).all().map(t => t.id)
+  const files = [...filesOf(typeIds), ...trashedFilesOfTypes(typeIds)]
   db.transaction((tx) => {
     tx.delete(tables.jobs).where(eq(tables.jobs.deckId, deck.id)).run()
     tx.delete(tables.decks).where(eq(tables.decks.id, deck.id)).run()
   })
-  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, unusedFiles(files))
   audit(actor, 'deck.delete', 'deck', deck.id, { title: deck.title })
 }
 
@@ -377,9 +379,9 @@ function filesOf(typeIds: string[], viewIds?: string[]) {
 
 export async function deleteTargetType(actor: Actor, type: TypeRow) {
   if (typeDrilled(type.id)) throw conflict('This target type has been drilled, so its history must stay. Archive the deck instead.')
-  const files = filesOf([type.id])
+  const files = [...filesOf([type.id]), ...trashedFilesOfTypes([type.id])]
   useDb().delete(tables.targetTypes).where(eq(tables.targetTypes.id, type.id)).run()
-  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, unusedFiles(files))
   audit(actor, 'target-type.delete', 'target_type', type.id, { name: type.name })
 }
 
@@ -398,24 +400,141 @@ export async function requireOwnView(event: H3Event, viewId: string) {
   return { ...found, view }
 }
 
-export async function deleteView(actor: Actor, viewId: string) {
+// A removed view can be restored for this many days; then its files are deleted (common practice
+// of trash folders, no source; 30 days is a design value).
+export const VIEW_TRASH_DAYS = 30
+const TRASH_MS = VIEW_TRASH_DAYS * 86_400_000
+
+type VariantRow = typeof tables.variants.$inferSelect
+type ViewRow = typeof tables.views.$inferSelect
+
+function trashFiles(rows: { snapshot: { variants: Record<string, unknown>[] } }[]) {
+  return rows.flatMap(r => r.snapshot.variants.map(v => String(v.file)))
+}
+
+// Of these files, those no rendering and no removed view names any more: a file is shared by the
+// copies of a target type (copyTargetType), so it is deleted only with its last user.
+function unusedFiles(files: string[]) {
+  if (!files.length) return []
+  const used = new Set(useDb().select({ file: tables.variants.file }).from(tables.variants).where(inArray(tables.variants.file, files)).all().map(v => v.file))
+  const trashed = new Set(useSqlite().prepare(`SELECT DISTINCT json_extract(v.value, '$.file') FROM removed_views r, json_each(r.snapshot, '$.variants') v`).pluck().all() as string[])
+  return [...new Set(files)].filter(f => !used.has(f) && !trashed.has(f))
+}
+
+/** Purges removed views older than the retention period, with their files. */
+export async function purgeViewTrash(nowMs = Date.now()) {
   const db = useDb()
-  const files = filesOf([], [viewId])
+  const old = db.select().from(tables.removedViews).where(lt(tables.removedViews.removedAt, nowMs - TRASH_MS)).all()
+  if (!old.length) return 0
+  db.delete(tables.removedViews).where(inArray(tables.removedViews.id, old.map(r => r.id))).run()
+  await removeRenderFiles(useRuntimeConfig().uploadsDir, unusedFiles(trashFiles(old)))
+  return old.length
+}
+
+/** Files of the trashed views of these target types (deleted with the type or deck). */
+function trashedFilesOfTypes(typeIds: string[]) {
+  if (!typeIds.length) return []
+  return trashFiles(useDb().select().from(tables.removedViews).where(inArray(tables.removedViews.targetTypeId, typeIds)).all())
+}
+
+/** Moves a view and its renderings' rows to the trash; the files stay until the trash is purged. */
+export async function deleteView(actor: Actor, deck: DeckRow, view: ViewRow, nowMs = Date.now()) {
+  const db = useDb()
   const used = db.select({ id: tables.sightings.id }).from(tables.sightings)
     .innerJoin(tables.variants, eq(tables.variants.id, tables.sightings.variantId))
-    .where(eq(tables.variants.viewId, viewId)).get()
+    .where(eq(tables.variants.viewId, view.id)).get()
   if (used) throw conflict('This view has been shown in watches, so it stays with their history.')
-  db.delete(tables.views).where(eq(tables.views.id, viewId)).run()
-  await removeRenderFiles(useRuntimeConfig().uploadsDir, files)
-  audit(actor, 'view.delete', 'view', viewId)
+  const variants = db.select().from(tables.variants).where(eq(tables.variants.viewId, view.id)).all()
+  db.transaction((tx) => {
+    tx.insert(tables.removedViews).values({
+      id: view.id, deckId: deck.id, targetTypeId: view.targetTypeId, aspect: view.aspect,
+      snapshot: { view: { ...view }, variants: variants.map(v => ({ ...v })) }, removedBy: actor.id, removedAt: nowMs,
+    }).run()
+    tx.delete(tables.views).where(eq(tables.views.id, view.id)).run()
+  })
+  audit(actor, 'view.remove', 'view', view.id, { deckId: deck.id, aspect: view.aspect })
+  await purgeViewTrash(nowMs)
+  return { id: view.id, restorableUntil: nowMs + TRASH_MS }
+}
+
+export interface TrashedView { id: string, targetTypeId: string, typeName: string, aspect: string, removedAt: number, restorableUntil: number }
+
+/** The deck's removed views still in the trash, newest first. */
+export function viewTrash(deckId: string, nowMs = Date.now()): TrashedView[] {
+  return useDb().select({ r: tables.removedViews, typeName: tables.targetTypes.name }).from(tables.removedViews)
+    .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.removedViews.targetTypeId))
+    .where(and(eq(tables.removedViews.deckId, deckId), gte(tables.removedViews.removedAt, nowMs - TRASH_MS)))
+    .orderBy(desc(tables.removedViews.removedAt)).all()
+    .map(({ r, typeName }) => ({ id: r.id, targetTypeId: r.targetTypeId, typeName, aspect: r.aspect, removedAt: r.removedAt, restorableUntil: r.removedAt + TRASH_MS }))
+}
+
+/** The trashed view if the actor owns its deck: 404 for an unknown one or one past its retention. */
+export async function requireOwnTrashedView(event: H3Event, viewId: string, nowMs = Date.now()) {
+  const row = useDb().select().from(tables.removedViews).where(eq(tables.removedViews.id, viewId)).get()
+  if (!row || row.removedAt < nowMs - TRASH_MS) {
+    await requireRole(event, 'instructor')
+    throw createError({ statusCode: 404, message: `No such removed view: removed views are kept for ${VIEW_TRASH_DAYS} days.` })
+  }
+  const found = await requireOwnDeck(event, row.deckId)
+  return { ...found, row }
+}
+
+/** Puts a removed view back, with its renderings, as it was. */
+export function restoreView(actor: Actor, row: typeof tables.removedViews.$inferSelect) {
+  const db = useDb()
+  const variants = row.snapshot.variants as unknown as VariantRow[]
+  db.transaction((tx) => {
+    tx.insert(tables.views).values(row.snapshot.view as unknown as ViewRow).run()
+    for (const v of variants) tx.insert(tables.variants).values(v).run()
+    tx.delete(tables.removedViews).where(eq(tables.removedViews.id, row.id)).run()
+  })
+  audit(actor, 'view.restore', 'view', row.id, { deckId: row.deckId, aspect: row.aspect })
 }
 
 /** Does the actor manage (own, or administer) the deck that uses this rendering? See managesDeck. */
 export function fileVisibleTo(actor: Actor, file: string) {
-  const row = useDb().select({ deck: tables.decks }).from(tables.variants)
+  const rows = useDb().select({ deck: tables.decks }).from(tables.variants)
     .innerJoin(tables.views, eq(tables.views.id, tables.variants.viewId))
     .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.views.targetTypeId))
     .innerJoin(tables.decks, eq(tables.decks.id, tables.targetTypes.deckId))
-    .where(eq(tables.variants.file, file)).get()
-  return !!row && managesDeck(actor, row.deck)
+    .where(eq(tables.variants.file, file)).all()
+  return rows.some(row => managesDeck(actor, row.deck))
+}
+
+// ---------------------------------------------------------------- the instructor's library
+
+/** Every target type of the instructor's own decks, to copy into another deck. */
+export function typeLibrary(actor: Actor) {
+  return useSqlite().prepare(`SELECT t.id, t.name, t.category, d.id AS deckId, d.title AS deckTitle,
+    (SELECT count(*) FROM views v WHERE v.target_type_id = t.id) AS views
+    FROM target_types t JOIN decks d ON d.id = t.deck_id WHERE d.owner_id = ? ORDER BY t.name, d.title`).all(actor.id) as
+    { id: string, name: string, category: string, deckId: string, deckTitle: string, views: number }[]
+}
+
+/**
+ * Copies one of the instructor's target types, with its views, into this deck: the views' renderings
+ * are shared (new rows naming the same files), so nothing is uploaded or rendered again. Look-alikes
+ * belong to a deck and are not copied.
+ */
+export function copyTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
+  const category = typeCategoryFor(deck, source.category as TypeCategory)
+  const db = useDb()
+  const views = db.select().from(tables.views).where(eq(tables.views.targetTypeId, source.id)).all()
+  const variants = views.length ? db.select().from(tables.variants).where(inArray(tables.variants.viewId, views.map(v => v.id))).all() : []
+  const id = newId()
+  try {
+    db.transaction((tx) => {
+      tx.insert(tables.targetTypes).values({ id, deckId: deck.id, name: source.name, category, affiliation: source.affiliation, sizeM: source.sizeM, features: source.features }).run()
+      for (const v of views) {
+        const viewId = newId()
+        tx.insert(tables.views).values({ id: viewId, targetTypeId: id, aspect: v.aspect, sourceSha: v.sourceSha, width: v.width, height: v.height }).run()
+        for (const x of variants.filter(x => x.viewId === v.id)) {
+          tx.insert(tables.variants).values({ ...x, id: newId(), viewId }).run()
+        }
+      }
+    })
+  }
+  catch (e) { uniqueName(e) }
+  audit(actor, 'target-type.copy', 'target_type', id, { deckId: deck.id, from: source.id, views: views.length })
+  return id
 }

@@ -58,7 +58,7 @@ interface CrewRow { id: string, name: string, minAccuracy: number, minCallsPerTr
 // The statements a weekly digest reads, prepared once per run.
 function digestReader(sqlite: Database) {
   const decksOf = sqlite.prepare(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
-    WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`)
+    WHERE dc.crew_id = ? AND d.status = 'published' ORDER BY d.title, d.id`)
   const traineesOf = sqlite.prepare(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
     WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee') ORDER BY u.name`)
   const keysOf = sqlite.prepare(`SELECT DISTINCT v.target_type_id AS targetTypeId, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id = ?`)

@@ -59,6 +59,10 @@ export function hasSameView(db: GlintDb, targetTypeId: string, sourceSha: string
     .where(and(eq(t.views.targetTypeId, targetTypeId), eq(t.views.sourceSha, sourceSha))).get()
 }
 
+// A removed view keeps its files for the trash's retention period (decks.ts, VIEW_TRASH_DAYS), so the
+// same picture uploaded again meets them: the way back is to restore it.
+const ALREADY_STORED = 'This picture is already stored as a view, or waits in the deck\'s removed views (put it back from there). Upload a different picture.'
+
 /**
  * Writes each rendering under a temporary name and links it to its content-addressed name
  * (link fails if the name exists, so a file another view owns is never replaced), then inserts
@@ -79,7 +83,7 @@ export async function storeView(db: GlintDb, uploadsDir: string, view: ViewToSto
         made.push(final)
       }
       catch (e) {
-        if ((e as NodeJS.ErrnoException).code === 'EEXIST') throw new StoreRefused('This picture is already stored as a view. Upload a different picture.')
+        if ((e as NodeJS.ErrnoException).code === 'EEXIST') throw new StoreRefused(ALREADY_STORED)
         throw e
       }
       finally {
@@ -104,7 +108,7 @@ export async function storeView(db: GlintDb, uploadsDir: string, view: ViewToSto
   catch (e) {
     await Promise.all(made.map(f => rm(f, { force: true })))
     if (e instanceof Error && /UNIQUE constraint failed: variants\.file/.test(e.message)) {
-      throw new StoreRefused('This picture is already stored as a view. Upload a different picture.')
+      throw new StoreRefused(ALREADY_STORED)
     }
     throw e
   }

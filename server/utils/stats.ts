@@ -15,7 +15,7 @@ import { quantileSorted, rollingMedian, sortedCopy } from '../../shared/utils/st
 import { localTimeText, percentText, secondsText } from '../../shared/utils/format'
 import { trendVerdict } from '../../shared/utils/trend'
 import type {
-  BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PersonReport, TrendFigures,
+  BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PairSide, PersonReport, SideBySidePair, TrendFigures,
 } from '../../shared/types/stats'
 import type { Actor } from './gate'
 import { crewsLedOver, hasRole, requireActor } from './gate'
@@ -42,8 +42,9 @@ function statementsFor(sqlite: Database) {
   return {
     crew: p(`SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
       offline_counts AS offlineCounts FROM crews WHERE id = ?`),
+    // Published decks only: a draft is shown to nobody but its instructors, and is not drilled.
     crewDecks: p(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
-      WHERE dc.crew_id = ? AND d.status != 'archived' ORDER BY d.title, d.id`),
+      WHERE dc.crew_id = ? AND d.status = 'published' ORDER BY d.title, d.id`),
     trainees: p(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
       WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee')
       ORDER BY u.name, u.id`),
@@ -547,7 +548,32 @@ export function deckConfusionsOf(sqlite: Database, deckId: string, days: number,
     overall: namedPairs(sqlite, names, worstPairs(calls, { limit })),
     byAspect: namedPairs(sqlite, names, worstPairs(calls, { by: 'aspect', limit })),
     byCondition: namedPairs(sqlite, names, worstPairs(calls, { by: 'condition', limit })),
+    sideBySide: sideBySide(sqlite, namedPairs(sqlite, names, worstPairs(calls, { by: 'aspect', limit }))),
   }
+}
+
+// The first pairs of distinct types, at the aspect where each was confused most: the two types side
+// by side with their features and a sunlit picture (for the deck's instructor, who may see renderings).
+const SIDE_BY_SIDE = 3
+function sideBySide(sqlite: Database, pairs: NamedPair[]): SideBySidePair[] {
+  const typeOf = sqlite.prepare('SELECT id, name, features FROM target_types WHERE id = ?')
+  const picture = sqlite.prepare(`SELECT va.file FROM variants va JOIN views v ON v.id = va.view_id
+    WHERE v.target_type_id = ? AND v.aspect = ? AND va.condition = 'sunlit' ORDER BY va.width < 320, va.width LIMIT 1`).pluck()
+  const side = (id: string, aspect: string): PairSide => {
+    const t = typeOf.get(id) as { id: string, name: string, features: string }
+    const file = picture.get(id, aspect) as string | undefined
+    return { id: t.id, name: t.name, features: JSON.parse(t.features) as Record<string, string>, imageUrl: file ? `/images/${file}` : null }
+  }
+  const seen = new Set<string>()
+  const out: SideBySidePair[] = []
+  for (const p of pairs) {
+    const key = [p.truthId, p.calledId].sort().join('|')
+    if (seen.has(key) || !p.aspect) continue
+    seen.add(key)
+    out.push({ aspect: p.aspect, count: p.count, share: p.share, truth: side(p.truthId, p.aspect), called: side(p.calledId, p.aspect) })
+    if (out.length === SIDE_BY_SIDE) break
+  }
+  return out
 }
 
 // ---------------------------------------------------------------- person page

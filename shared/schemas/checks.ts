@@ -28,8 +28,14 @@ const checkFields = {
     .min(0.5, 'Use a pass mark from 0.5 to 1 (50 to 100 %).').max(1, 'Use a pass mark from 0.5 to 1 (50 to 100 %).'),
 }
 
-export const CheckBody = z.object({ deckId: Id, ...checkFields }).strict()
-export const CheckPatch = z.object(checkFields).partial().strict()
+// The day by which a crew should have taken the check (a calendar date, ISO 8601), or null for none.
+const DueDate = z.iso.date({ message: 'Give the due date as a date (YYYY-MM-DD), or leave it empty.' }).nullable()
+
+// A check may show only some of the deck's target types (e.g. the crew's worst look-alike pairs).
+const TargetTypeIds = z.array(Id, { message: 'Give targetTypeIds as a list of target type ids.' }).min(2, 'Choose at least two target types.').max(20, 'Choose at most 20 target types.')
+
+export const CheckBody = z.object({ deckId: Id, ...checkFields, dueDate: DueDate.optional(), targetTypeIds: TargetTypeIds.optional() }).strict()
+export const CheckPatch = z.object({ ...checkFields, dueDate: DueDate }).partial().strict()
 
 // A lead's sign-off may carry a remark; withdrawing one needs a reason (issue 17, item 11).
 export const SignOffBody = z.object({
@@ -59,6 +65,12 @@ export interface CheckView {
   createdBy: string
   createdAt: number
   attempts: number
+  // YYYY-MM-DD (due by the end of that UTC day), or null
+  dueDate: string | null
+  // set once retired: no longer offered, kept with its results
+  retiredAt: number | null
+  // only these target types of the deck are shown, or null for all
+  targetTypeIds: string[] | null
 }
 
 export interface AttemptSummary {

@@ -1,6 +1,7 @@
 // Schemas of the deck builder's API: decks, their drill settings, target types, uploads.
 import { z } from 'zod'
 import { ASPECTS } from '../utils/conditions'
+import { countOf } from '../utils/count-of'
 import { Id } from './auth'
 
 export const DECK_CATEGORIES = ['aircraft', 'vessel', 'mixed'] as const
@@ -35,22 +36,23 @@ export const SETTING_BOUNDS = {
   minExposureMs: { min: 100, max: 4000 },
 } as const
 
-const int = (key: keyof typeof SETTING_BOUNDS, unit: string) => {
+const int = (key: keyof typeof SETTING_BOUNDS, unit: string, singular: string) => {
   const { min, max } = SETTING_BOUNDS[key]
   return z.number({ error: `Give a number of ${unit}.` }).int(`Give a whole number of ${unit}.`)
-    .min(min, `Use at least ${min} ${unit}.`).max(max, `Use at most ${max} ${unit}.`)
+    .min(min, `Use at least ${countOf(min, singular, unit)}.`).max(max, `Use at most ${countOf(max, singular, unit)}.`)
 }
 
 export const DeckSettingsPatch = z.object({
-  hesitationMs: int('hesitationMs', 'milliseconds').optional(),
-  windowMs: int('windowMs', 'milliseconds').optional(),
-  newPerDay: int('newPerDay', 'new tracks').optional(),
-  retention: z.number({ error: 'Give the desired retention as a number between 0.7 and 0.99.' })
-    .min(SETTING_BOUNDS.retention.min, 'Use a desired retention of at least 0.7.')
-    .max(SETTING_BOUNDS.retention.max, 'Use a desired retention of at most 0.99.').optional(),
-  choiceCount: int('choiceCount', 'choices').optional(),
+  hesitationMs: int('hesitationMs', 'milliseconds', 'millisecond').optional(),
+  windowMs: int('windowMs', 'milliseconds', 'millisecond').optional(),
+  newPerDay: int('newPerDay', 'introductions a day', 'introduction a day').optional(),
+  // The recall target is FSRS's desired retention; people see it as a share, 70 to 99 %.
+  retention: z.number({ error: 'Give the recall target as a number between 0.7 and 0.99 (70 to 99 %).' })
+    .min(SETTING_BOUNDS.retention.min, 'Use a recall target of at least 0.7 (70 %).')
+    .max(SETTING_BOUNDS.retention.max, 'Use a recall target of at most 0.99 (99 %).').optional(),
+  choiceCount: int('choiceCount', 'choices', 'choice').optional(),
   answerMode: z.enum(ANSWER_MODES, { error: 'Choose answer buttons (choices) or typed answers (typed).' }).optional(),
-  minExposureMs: int('minExposureMs', 'milliseconds').optional(),
+  minExposureMs: int('minExposureMs', 'milliseconds', 'millisecond').optional(),
 }).strict()
 export type DeckSettingsPatch = z.infer<typeof DeckSettingsPatch>
 
@@ -119,6 +121,11 @@ export const TargetTypePatch = z.object({
 }).strict()
 export type TargetTypePatch = z.infer<typeof TargetTypePatch>
 
+// Copying one of the instructor's target types (with its views) into a deck.
+export const TypeCopyBody = z.object({
+  targetTypeId: Id,
+}).strict()
+
 /** A sentence for a feature record that does not fit its category, or null when it fits. */
 export function featuresProblem(category: TypeCategory, features: Record<string, string>): string | null {
   const allowed: readonly string[] = FEATURE_KEYS[category]
@@ -166,6 +173,14 @@ export interface BuilderDeck {
   drilled: boolean
   crews: { id: string, name: string }[]
   targetTypes: BuilderTargetType[]
+}
+
+/** The rule across settings: the hesitation limit must fit inside the answer window. */
+export function settingsConflict(s: { hesitationMs?: number, windowMs?: number }): { field: string, message: string } | null {
+  if (s.hesitationMs !== undefined && s.windowMs !== undefined && s.hesitationMs >= s.windowMs) {
+    return { field: 'settings.hesitationMs', message: 'The hesitation limit must be shorter than the answer window.' }
+  }
+  return null
 }
 
 /** Splits a server message "settings.retention: Use ..." into its field and sentence, for inline errors. */

@@ -81,7 +81,12 @@ export interface DeckConfusions {
   overall: NamedPair[]
   byAspect: NamedPair[]
   byCondition: NamedPair[]
+  // the worst pairs at the aspect where they are confused, each type with its features and picture
+  sideBySide: SideBySidePair[]
 }
+
+export interface PairSide { id: string, name: string, features: Record<string, string>, imageUrl: string | null }
+export interface SideBySidePair { aspect: string, count: number, share: number, truth: PairSide, called: PairSide }
 
 export interface BreakdownView {
   key: string

@@ -55,7 +55,7 @@ describe('the watch page at 390x844', () => {
 
     await page.goto('/watch')
     if (await page.locator('#watch-deck').count()) await page.selectOption('#watch-deck', deck.id)
-    await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/7 due · 1 new/)
+    await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/7 to refresh · 1 to meet/)
     await page.getByRole('button', { name: 'Start watch' }).click()
     await page.getByTestId('sighting-box').waitFor()
     // Layout shifts from here on, not caused by a tap (Layout Instability API: hadRecentInput).
@@ -183,7 +183,7 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
     const fx = await ensureDrillFixture()
     const trainee = await drillTrainee(fx.crewId)
     const { context, page } = await openWatch(trainee, fx.deckId)
-    await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/0 due · 10 new/)
+    await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/0 to refresh · 10 to meet/)
     await page.getByRole('button', { name: 'Start watch' }).click()
 
     // The first thing shown is an introduction, not a sighting: name, features, picture, look-alike.

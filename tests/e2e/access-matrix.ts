@@ -42,6 +42,12 @@ export const MATRIX: Record<string, Entry> = {
   'PATCH /api/target-types/:target-type': deckOwner,
   'DELETE /api/target-types/:target-type': deckOwner,
   'DELETE /api/views/:view': deckOwner,
+  // The trash of removed views (issue 17, item 4): its deck's owner only.
+  'GET /api/decks/:deck/trash': deckOwner,
+  'POST /api/views/:view/restore': deckOwner,
+  // The instructor's library of target types (issue 17, item 5): their own decks' types, copied into their own deck.
+  'GET /api/target-types/library': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
+  'POST /api/decks/:deck/type-copies': deckOwner,
   // An upload job is its uploader's only (an instructor's); nobody else learns it exists.
   'GET /api/jobs/:job': { anon: 401, trainee: 404, instructor: 'ok', lead: 404, admin: 404 },
   'POST /api/watches': { anon: 401, trainee: 'ok', instructor: 403, lead: 403, admin: 403 },
@@ -107,6 +113,8 @@ export const MATRIX: Record<string, Entry> = {
   'GET /api/checks/:check': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
   'PATCH /api/checks/:check': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
   'DELETE /api/checks/:check': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
+  // Retiring a check (issue 17, item 7): its own instructor only.
+  'POST /api/checks/:check/retire': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
   'POST /api/checks/:check/attempts': { anon: 401, trainee: 'ok', instructor: 403, lead: 403, admin: 403 },
   // A result: the trainee, a lead of the crew the check belongs to, the check's instructor, an admin.
   'GET /api/checks/attempts/:attempt': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },

@@ -113,6 +113,19 @@ const REQUESTS: Record<string, Build> = {
     writeDb(db => db.prepare(`INSERT INTO views (id, target_type_id, aspect, source_sha, width, height) VALUES (?, ?, 'beam', ?, 320, 214)`).run(view, s.draftType, randomBytes(32).toString('hex')))
     return { params: { view } }
   },
+  'GET /api/decks/:deck/trash': s => ({ params: { deck: s.draftDeck } }),
+  'POST /api/decks/:deck/type-copies': async s => ({
+    params: { deck: (await ok(s.instructor.client.post('/api/decks', { title: unique('Matrix copy target'), category: 'aircraft' }), 'deck')).id },
+    body: { targetTypeId: s.draftType },
+  }),
+  'POST /api/views/:view/restore': (s) => {
+    // A view in the draft deck's trash, as DELETE /api/views/:view leaves it.
+    const view = randomBytes(16).toString('base64url')
+    const snapshot = { view: { id: view, targetTypeId: s.draftType, aspect: 'beam', sourceSha: randomBytes(32).toString('hex'), width: 320, height: 214 }, variants: [] }
+    writeDb(db => db.prepare(`INSERT INTO removed_views (id, deck_id, target_type_id, aspect, snapshot, removed_at) VALUES (?, ?, ?, 'beam', ?, ?)`)
+      .run(view, s.draftDeck, s.draftType, JSON.stringify(snapshot), Date.now()))
+    return { params: { view } }
+  },
   'POST /api/watches': s => ({ body: { deckId: s.deck } }),
   'POST /api/sightings/:sighting/call': s => ({ params: { sighting: s.sightings[0]! }, body: { choiceId: null, latencyMs: null, framesShown: 6, frameIntervalMs: 16.7 } }),
   'POST /api/sightings/:sighting/void': s => ({ params: { sighting: s.sightings[1]! } }),
@@ -132,6 +145,9 @@ const REQUESTS: Record<string, Build> = {
   'PATCH /api/checks/:check': s => ({ params: { check: s.check0 }, body: { title: unique('Matrix check') } }),
   'DELETE /api/checks/:check': async s => ({
     params: { check: (await ok(s.instructor.client.post('/api/checks', { ...CHECK, deckId: s.deck, title: unique('Matrix doomed check') }), 'check')).id },
+  }),
+  'POST /api/checks/:check/retire': async s => ({
+    params: { check: (await ok(s.instructor.client.post('/api/checks', { ...CHECK, deckId: s.deck, title: unique('Matrix retired check') }), 'check')).id },
   }),
   'POST /api/checks/:check/attempts': s => ({ params: { check: s.checkToTake } }),
   'GET /api/checks/attempts/:attempt': s => ({ params: { attempt: s.attempts.get } }),

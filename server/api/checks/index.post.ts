@@ -1,9 +1,11 @@
 import { CheckBody } from '#shared/schemas/checks'
 
-// An instructor defines a check on a deck of their own.
+// An instructor defines a check on a published deck of their own.
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'instructor')
   const input = await readInput(event, CheckBody)
+  const check = createCheck(useSqlite(), actor, input)
+  audit(actor, 'check.create', 'check', check.id, { ...input })
   setResponseStatus(event, 201)
-  return createCheck(useSqlite(), actor, input)
+  return check
 })

@@ -1,8 +1,8 @@
 import { IdParam } from '#shared/schemas/params'
 
+// Moves the view to the deck's trash, restorable for VIEW_TRASH_DAYS.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
-  const { actor, view } = await requireOwnView(event, id)
-  await deleteView(actor, view.id)
-  return { ok: true }
+  const { actor, deck, view } = await requireOwnView(event, id)
+  return { ok: true, ...await deleteView(actor, deck, view) }
 })

@@ -41,14 +41,14 @@ beforeAll(() => {
   const r = rng(7)
   sqlite.prepare('INSERT INTO crews (id, name) VALUES (\'crewaaaaaa\', \'Unit crew\')').run()
   sqlite.prepare('INSERT INTO users (id, email, name, password_hash) VALUES (\'ownraaaaaa\', \'o@x.test\', \'Owner\', \'x\')').run()
-  sqlite.prepare('INSERT INTO decks (id, title, category, owner_id, hesitation_ms) VALUES (\'deckaaaaaa\', \'Unit deck\', \'aircraft\', \'ownraaaaaa\', 1200)').run()
+  sqlite.prepare('INSERT INTO decks (id, title, category, owner_id, hesitation_ms, status) VALUES (\'deckaaaaaa\', \'Unit deck\', \'aircraft\', \'ownraaaaaa\', 1200, \'published\')').run()
   sqlite.prepare('INSERT INTO deck_crews (deck_id, crew_id) VALUES (\'deckaaaaaa\', \'crewaaaaaa\')').run()
   for (const t of types) {
     sqlite.prepare('INSERT INTO target_types (id, deck_id, name, category, affiliation, size_m, features) VALUES (?, \'deckaaaaaa\', ?, \'aircraft\', \'neutral\', 10, \'{}\')').run(t, t)
     for (const a of ASPECTS) sqlite.prepare('INSERT INTO views (id, target_type_id, aspect, source_sha, width, height) VALUES (?, ?, ?, \'s\', 1, 1)').run(`${t}${a}`, t, a)
   }
   // A second deck with one type, so the crew table's per-deck readiness is tested on two decks.
-  sqlite.prepare('INSERT INTO decks (id, title, category, owner_id, hesitation_ms) VALUES (\'deckbbbbbb\', \'Second deck\', \'vessel\', \'ownraaaaaa\', 900)').run()
+  sqlite.prepare('INSERT INTO decks (id, title, category, owner_id, hesitation_ms, status) VALUES (\'deckbbbbbb\', \'Second deck\', \'vessel\', \'ownraaaaaa\', 900, \'published\')').run()
   sqlite.prepare('INSERT INTO deck_crews (deck_id, crew_id) VALUES (\'deckbbbbbb\', \'crewaaaaaa\')').run()
   sqlite.prepare('INSERT INTO target_types (id, deck_id, name, category, affiliation, size_m, features) VALUES (\'tybbbbbbbb\', \'deckbbbbbb\', \'B\', \'vessel\', \'neutral\', 50, \'{}\')').run()
   sqlite.prepare('INSERT INTO views (id, target_type_id, aspect, source_sha, width, height) VALUES (\'vwbbbbbbbb\', \'tybbbbbbbb\', \'beam\', \'s\', 1, 1)').run()

@@ -1,9 +1,10 @@
 import { IdParam } from '#shared/schemas/params'
 
-// Its instructor deletes a check while nobody has taken it (409 after).
+// Its instructor deletes a check while nobody has taken it (409 after: retire it instead).
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'instructor')
-  deleteCheck(useSqlite(), actor, id)
+  const check = deleteCheck(useSqlite(), actor, id)
+  audit(actor, 'check.delete', 'check', id, { title: check.title, deckId: check.deckId })
   return { ok: true }
 })

@@ -1,10 +1,12 @@
 import { CheckPatch } from '#shared/schemas/checks'
 import { IdParam } from '#shared/schemas/params'
 
-// Its instructor changes a check while nobody has taken it (409 after).
+// Its instructor changes a check while nobody has taken it (409 after), its due date until it is retired.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'instructor')
   const patch = await readInput(event, CheckPatch)
-  return updateCheck(useSqlite(), actor, id, patch)
+  const check = updateCheck(useSqlite(), actor, id, patch)
+  audit(actor, 'check.update', 'check', id, { ...patch })
+  return check
 })

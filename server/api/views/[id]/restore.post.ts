@@ -1,0 +1,9 @@
+import { IdParam } from '#shared/schemas/params'
+
+// Puts a removed view back from the deck's trash.
+export default defineEventHandler(async (event) => {
+  const { id } = await paramsInput(event, IdParam)
+  const { actor, row } = await requireOwnTrashedView(event, id)
+  restoreView(actor, row)
+  return { ok: true, id }
+})

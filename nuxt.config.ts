@@ -42,7 +42,8 @@ export default defineNuxtConfig({
     output: tag ? { dir: `.output-${tag}` } : undefined,
     experimental: { tasks: true },
     // Weekly digest to leads on Monday 06:00, daily reminders to trainees at 05:00 (server time).
-    scheduledTasks: { '0 6 * * 1': ['digests:weekly'], '0 5 * * *': ['digests:daily'] },
+    // Crews' FSRS parameters refitted on Sunday 03:00.
+    scheduledTasks: { '0 6 * * 1': ['digests:weekly'], '0 5 * * *': ['digests:daily'], '0 3 * * 0': ['fsrs:fit-crews'] },
     externals: { external: ['better-sqlite3'] },
   },
   typescript: { strict: true },

@@ -1,0 +1,167 @@
+// Each crew's FSRS parameters on the database: the fit (weekly, and when an instructor or lead
+// asks) runs off the request thread (the optimizer runs on the binding's own native threads and the
+// route answers before it ends), its state and figures in `crew_fsrs_params`, and the weights the
+// scheduler uses for a trainee's call. Plain imports, so the seed and scripts can use it.
+import type { Database } from 'better-sqlite3'
+import { default_w } from 'ts-fsrs'
+import { byTrack, calibration, firstCurve, fitParameters, MIN_FIT_CALLS } from '../core/scheduling/fit'
+import type { ReviewLog } from '../core/scheduling/fit'
+import type { CrewFitView } from '../../shared/types/fit'
+import type { CallGrade } from '../../shared/utils/grade'
+
+interface Row {
+  crewId: string
+  status: CrewFitView['status']
+  progress: number
+  message: string | null
+  calls: number
+  tracks: number
+  needed: number
+  defaultLogLoss: number | null
+  defaultRmse: number | null
+  fittedLogLoss: number | null
+  fittedRmse: number | null
+  fittedWeights: string | null
+  adoptedWeights: string | null
+  finishedAt: number | null
+}
+
+const SELECT_ROW = `SELECT crew_id AS crewId, status, progress, message, calls, tracks, needed, default_log_loss AS defaultLogLoss,
+  default_rmse AS defaultRmse, fitted_log_loss AS fittedLogLoss, fitted_rmse AS fittedRmse, fitted_weights AS fittedWeights,
+  adopted_weights AS adoptedWeights, finished_at AS finishedAt FROM crew_fsrs_params WHERE crew_id = ?`
+
+// The calls of a crew's members on the crew's decks that reviewed a track (checks review none).
+const CREW_LOGS = `SELECT c.track_id AS trackId, c.called_at AS calledAt, c.grade FROM calls c
+  JOIN memberships m ON m.user_id = c.user_id AND m.crew_id = ?
+  JOIN deck_crews dc ON dc.deck_id = c.deck_id AND dc.crew_id = m.crew_id
+  WHERE c.track_id IS NOT NULL ORDER BY c.track_id, c.called_at`
+
+export function crewReviewLogs(sqlite: Database, crewId: string): ReviewLog[] {
+  return (sqlite.prepare(CREW_LOGS).all(crewId) as { trackId: string, calledAt: number, grade: CallGrade }[])
+}
+
+// ---------------------------------------------------------------- the weights a call uses
+
+// crew id → adopted weights (null: defaults); user|deck → crew id. Cleared when a fit ends.
+const adoptedCache = new Map<string, readonly number[] | null>()
+const crewOfCache = new Map<string, string | null>()
+
+/** The adopted weights for a trainee's call on a deck: those of the trainee's crew the deck is assigned to (first by id). */
+export function weightsForCall(sqlite: Database, userId: string, deckId: string): readonly number[] | undefined {
+  const key = `${userId}|${deckId}`
+  let crewId = crewOfCache.get(key)
+  if (crewId === undefined) {
+    const row = sqlite.prepare(`SELECT m.crew_id AS crewId FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id AND dc.deck_id = ?
+      WHERE m.user_id = ? ORDER BY m.crew_id LIMIT 1`).get(deckId, userId) as { crewId: string } | undefined
+    crewId = row?.crewId ?? null
+    if (crewOfCache.size > 10_000) crewOfCache.clear()
+    crewOfCache.set(key, crewId)
+  }
+  if (crewId === null) return undefined
+  let weights = adoptedCache.get(crewId)
+  if (weights === undefined) {
+    const row = sqlite.prepare('SELECT adopted_weights AS w FROM crew_fsrs_params WHERE crew_id = ?').get(crewId) as { w: string | null } | undefined
+    weights = row?.w ? JSON.parse(row.w) as number[] : null
+    adoptedCache.set(crewId, weights)
+  }
+  return weights ?? undefined
+}
+
+/** Forget cached crews and weights (a fit ended, or memberships or deck assignments changed). */
+export function forgetCrewWeights(): void {
+  adoptedCache.clear()
+  crewOfCache.clear()
+}
+
+// ---------------------------------------------------------------- running a fit
+
+const running = new Map<string, Promise<void>>()
+
+/**
+ * Starts a fit of the crew's parameters unless one is running; returns at once. The row shows
+ * progress while it runs. Too few calls: the defaults stay and the row says how many more.
+ */
+export function startCrewFit(sqlite: Database, crewId: string, requestedBy: string | null, nowMs = Date.now()): Promise<void> {
+  const busy = running.get(crewId)
+  if (busy) return busy
+  sqlite.prepare(`INSERT INTO crew_fsrs_params (crew_id, status, progress, message, requested_by, started_at, updated_at)
+    VALUES (?, 'running', 0, NULL, ?, ?, ?)
+    ON CONFLICT (crew_id) DO UPDATE SET status = 'running', progress = 0, message = NULL, requested_by = excluded.requested_by,
+    started_at = excluded.started_at, updated_at = excluded.updated_at`).run(crewId, requestedBy, nowMs, nowMs)
+  const job = runCrewFit(sqlite, crewId).finally(() => running.delete(crewId))
+  running.set(crewId, job)
+  return job
+}
+
+async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
+  const setProgress = sqlite.prepare('UPDATE crew_fsrs_params SET progress = ?, updated_at = ? WHERE crew_id = ?')
+  let last = 0
+  try {
+    // let the route answer before the calls are read
+    await new Promise(resolve => setImmediate(resolve))
+    const logs = crewReviewLogs(sqlite, crewId)
+    const out = await fitParameters(logs, (share) => {
+      if (share - last >= 0.05) {
+        last = share
+        setProgress.run(share, Date.now(), crewId)
+      }
+    })
+    const now = Date.now()
+    if (out.status === 'too-few') {
+      sqlite.prepare(`UPDATE crew_fsrs_params SET status = 'too-few', progress = 1, calls = ?, tracks = ?, needed = ?,
+        message = ?, finished_at = ?, updated_at = ? WHERE crew_id = ?`)
+        .run(out.calls, out.tracks, out.needed, `${out.needed} more calls are needed before a fit is tried; the crew stays on the default parameters.`, now, now, crewId)
+      return
+    }
+    const message = out.adopted
+      ? 'The fitted parameters predicted unseen calls better than the defaults and are now used for this crew.'
+      : 'The fitted parameters did not predict unseen calls better than the defaults; the crew stays on the defaults.'
+    sqlite.prepare(`UPDATE crew_fsrs_params SET status = 'done', progress = 1, calls = ?, tracks = ?, needed = 0, message = ?,
+      default_log_loss = ?, default_rmse = ?, fitted_log_loss = ?, fitted_rmse = ?, fitted_weights = ?, adopted_weights = ?,
+      finished_at = ?, updated_at = ? WHERE crew_id = ?`)
+      .run(out.calls, out.tracks, message, out.defaults.logLoss, out.defaults.rmse, out.fitted.logLoss, out.fitted.rmse,
+        JSON.stringify(out.weights), out.adopted ? JSON.stringify(out.weights) : null, now, now, crewId)
+  }
+  catch (error) {
+    const now = Date.now()
+    sqlite.prepare(`UPDATE crew_fsrs_params SET status = 'failed', message = ?, finished_at = ?, updated_at = ? WHERE crew_id = ?`)
+      .run(`The fit failed (${error instanceof Error ? error.message : String(error)}); the crew keeps the parameters it had.`, now, now, crewId)
+  }
+  finally {
+    forgetCrewWeights()
+  }
+}
+
+/** Fits every crew in turn (the weekly task). */
+export async function fitAllCrews(sqlite: Database): Promise<{ crews: number }> {
+  const crews = sqlite.prepare('SELECT id FROM crews ORDER BY id').all() as { id: string }[]
+  for (const crew of crews) await startCrewFit(sqlite, crew.id, null)
+  return { crews: crews.length }
+}
+
+// ---------------------------------------------------------------- the view
+
+const CURVE_DAYS = Array.from({ length: 31 }, (_, i) => i)
+
+export function crewFitView(sqlite: Database, crewId: string): CrewFitView {
+  const row = sqlite.prepare(SELECT_ROW).get(crewId) as Row | undefined
+  const fittedWeights = row?.fittedWeights ? JSON.parse(row.fittedWeights) as number[] : null
+  const tracks = byTrack(crewReviewLogs(sqlite, crewId))
+  const calls = tracks.reduce((s, t) => s + t.length, 0)
+  return {
+    crewId,
+    status: row?.status ?? 'idle',
+    progress: row?.progress ?? 0,
+    message: row?.message ?? (calls < MIN_FIT_CALLS ? `${MIN_FIT_CALLS - calls} more calls are needed before a fit is tried.` : null),
+    calls: row && row.status !== 'idle' && row.status !== 'running' ? row.calls : calls,
+    tracks: row && row.status !== 'idle' && row.status !== 'running' ? row.tracks : tracks.length,
+    needed: row?.needed ?? Math.max(0, MIN_FIT_CALLS - calls),
+    minCalls: MIN_FIT_CALLS,
+    defaults: { logLoss: row?.defaultLogLoss ?? null, rmse: row?.defaultRmse ?? null },
+    fitted: { logLoss: row?.fittedLogLoss ?? null, rmse: row?.fittedRmse ?? null },
+    adopted: !!row?.adoptedWeights,
+    finishedAt: row?.finishedAt ?? null,
+    curve: { days: CURVE_DAYS, defaults: firstCurve(default_w, CURVE_DAYS), fitted: fittedWeights ? firstCurve(fittedWeights, CURVE_DAYS) : null },
+    calibration: { defaults: calibration(tracks, undefined), fitted: fittedWeights ? calibration(tracks, fittedWeights) : null },
+  }
+}

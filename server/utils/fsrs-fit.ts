@@ -1,13 +1,14 @@
 // Each crew's FSRS parameters on the database: the fit (weekly, and when an instructor or lead
-// asks) runs off the request thread (the optimizer runs on the binding's own native threads and the
-// route answers before it ends), its state and figures in `crew_fsrs_params`, and the weights the
-// scheduler uses for a trainee's call. Plain imports, so the seed and scripts can use it.
+// asks) runs in a child process (fit-process.ts; the route answers before it ends, and a crash of
+// the optimizer fails that fit only), its state and figures in `crew_fsrs_params`, and the weights
+// the scheduler uses for a trainee's call. Plain imports, so the seed and scripts can use it.
 import type { Database } from 'better-sqlite3'
 import { default_w } from 'ts-fsrs'
-import { byTrack, calibration, firstCurve, fitParameters, MIN_FIT_CALLS } from '../core/scheduling/fit'
+import { byTrack, calibration, firstCurve, MIN_FIT_CALLS } from '../core/scheduling/fit'
 import type { ReviewLog } from '../core/scheduling/fit'
 import type { CrewFitView } from '../../shared/types/fit'
 import type { CallGrade } from '../../shared/utils/grade'
+import { fitInChild } from './fit-process'
 
 interface Row {
   crewId: string
@@ -100,11 +101,13 @@ async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
     // let the route answer before the calls are read
     await new Promise(resolve => setImmediate(resolve))
     const logs = crewReviewLogs(sqlite, crewId)
-    const out = await fitParameters(logs, (share) => {
-      if (share - last >= 0.05) {
-        last = share
-        setProgress.run(share, Date.now(), crewId)
-      }
+    const out = await fitInChild(logs, {
+      onProgress: (share) => {
+        if (share - last >= 0.05) {
+          last = share
+          setProgress.run(share, Date.now(), crewId)
+        }
+      },
     })
     const now = Date.now()
     if (out.status === 'too-few') {

@@ -1,8 +1,10 @@
 // Fitting the demo crew's FSRS parameters over HTTP: an instructor starts the fit, sees progress,
 // then the figures and the pictures' data; new calls of that crew's tracks then use the fitted set.
 import { randomBytes } from 'node:crypto'
+import { resolve } from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { signedIn } from '../support/client'
+import { Client, signedIn } from '../support/client'
+import { ownServer } from '../support/own-server'
 import { drillTrainee, ensureDrillFixture, readDb, writeDb } from '../support/drill-fixture'
 import type { DrillFixture } from '../support/drill-fixture'
 import type { CrewFitView } from '../../shared/types/fit'
@@ -16,8 +18,8 @@ beforeAll(async () => {
 const answerOf = (sightingId: string) => readDb(db => db.prepare('SELECT answer_choice_id AS a FROM sightings WHERE id = ?').get(sightingId) as { a: string }).a
 const trackOf = (sightingId: string) => readDb(db => db.prepare('SELECT t.stability, t.reps FROM tracks t JOIN sightings s ON s.track_id = t.id WHERE s.id = ?').get(sightingId) as { stability: number, reps: number })
 
-async function fitOf(crewId: string): Promise<CrewFitView> {
-  const instructor = await signedIn('instructor@glint.demo')
+async function fitOf(crewId: string, base?: string): Promise<CrewFitView> {
+  const instructor = await new Client(base).login('instructor@glint.demo')
   const start = await instructor.post<CrewFitView>(`/api/crews/${crewId}/fsrs`, {})
   expect(start.status, start.text).toBe(202)
   expect(start.body.status).toBe('running')
@@ -148,4 +150,28 @@ describe('per-crew FSRS parameters', () => {
     expect(unknown.status).toBe(404)
     expect(readDb(db => db.prepare('SELECT COUNT(*) AS n FROM crew_fsrs_params WHERE crew_id = ?').get('AAAAAAAAAAAAAAAAAAAAAA') as { n: number }).n).toBe(0)
   })
+
+  it('a crash of the optimizer (a Rust panic aborting its process) fails that fit with words a person can read; the server keeps answering', async () => {
+    // A server whose fit child is a stand-in whose optimizer panics on a malformed item
+    // (tests/fixtures/fit-child-panics.mjs): the abort must stay in that child.
+    const server = await ownServer({ GLINT_FIT_WORKER: resolve('tests/fixtures/fit-child-panics.mjs') })
+    try {
+      const view = await fitOf(fx.crewId, server.url)
+      expect(view.status).toBe('failed')
+      // POSIX abort(3) raises SIGABRT; the words are fsrs-rs's own for an item with no review after a gap.
+      expect(view.message).toContain('was stopped by the signal SIGABRT')
+      expect(view.message).toContain('at least one review with delta_t > 0 is required')
+      expect(view.message).toContain('the crew keeps the parameters it had')
+      expect(view.adopted).toBe(false)
+      const health = await fetch(`${server.url}/api/health`)
+      expect(health.status).toBe(200)
+      // and it still serves the people signed in before the crash, and a fit can be asked again
+      const instructor = await new Client(server.url).login('instructor@glint.demo')
+      const again = await instructor.post<CrewFitView>(`/api/crews/${fx.crewId}/fsrs`, {})
+      expect(again.status).toBe(202)
+    }
+    finally {
+      await server.stop()
+    }
+  }, 200_000)
 })

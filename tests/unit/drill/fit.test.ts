@@ -1,10 +1,11 @@
-// Fitting a crew's FSRS parameters (server/core/scheduling/fit.ts) with the fsrs-rs optimizer of
+// Fitting a crew's FSRS parameters (server/core/scheduling/optimize.ts, fit.ts) with the fsrs-rs optimizer of
 // @open-spaced-repetition/binding. Synthetic calls are drawn from a forgetting curve far steeper
 // than FSRS's defaults, R(t) = 0.5^(t / 1.5 days) (an exponential curve, Ebbinghaus-style: design
 // value), so a fit to them must predict held-out calls better than the defaults.
 import { describe, expect, it } from 'vitest'
 import { default_w } from 'ts-fsrs'
-import { calibration, byTrack, fitParameters, MIN_FIT_CALLS, shouldAdopt, toItems } from '../../../server/core/scheduling/fit'
+import { calibration, byTrack, MIN_FIT_CALLS, shouldAdopt } from '../../../server/core/scheduling/fit'
+import { fitParameters, toItems } from '../../../server/core/scheduling/optimize'
 import type { ReviewLog } from '../../../server/core/scheduling/fit'
 
 const DAY_MS = 86_400_000

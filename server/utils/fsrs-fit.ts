@@ -4,9 +4,9 @@
 // the scheduler uses for a trainee's call. Plain imports, so the seed and scripts can use it.
 import type { Database } from 'better-sqlite3'
 import { default_w } from 'ts-fsrs'
-import { byTrack, calibration, firstCurve, MIN_FIT_CALLS } from '../core/scheduling/fit'
+import { byTrack, calibration, firstCurve, forgettingByGap, MIN_FIT_CALLS, MIN_PERSON_CALLS } from '../core/scheduling/fit'
 import type { ReviewLog } from '../core/scheduling/fit'
-import type { CrewFitView } from '../../shared/types/fit'
+import type { CrewFitView, PersonFitView } from '../../shared/types/fit'
 import type { CallGrade } from '../../shared/utils/grade'
 import { fitInChild } from './fit-process'
 
@@ -32,13 +32,13 @@ const SELECT_ROW = `SELECT crew_id AS crewId, status, progress, message, calls, 
   adopted_weights AS adoptedWeights, finished_at AS finishedAt FROM crew_fsrs_params WHERE crew_id = ?`
 
 // The calls of a crew's members on the crew's decks that reviewed a track (checks review none).
-const CREW_LOGS = `SELECT c.track_id AS trackId, c.called_at AS calledAt, c.grade FROM calls c
+const CREW_LOGS = `SELECT c.track_id AS trackId, c.called_at AS calledAt, c.grade, c.user_id AS userId FROM calls c
   JOIN memberships m ON m.user_id = c.user_id AND m.crew_id = ?
   JOIN deck_crews dc ON dc.deck_id = c.deck_id AND dc.crew_id = m.crew_id
   WHERE c.track_id IS NOT NULL ORDER BY c.track_id, c.called_at`
 
-export function crewReviewLogs(sqlite: Database, crewId: string): ReviewLog[] {
-  return (sqlite.prepare(CREW_LOGS).all(crewId) as { trackId: string, calledAt: number, grade: CallGrade }[])
+export function crewReviewLogs(sqlite: Database, crewId: string): (ReviewLog & { userId: string })[] {
+  return (sqlite.prepare(CREW_LOGS).all(crewId) as { trackId: string, calledAt: number, grade: CallGrade, userId: string }[])
 }
 
 // ---------------------------------------------------------------- the weights a call uses
@@ -100,7 +100,7 @@ async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
   try {
     // let the route answer before the calls are read
     await new Promise(resolve => setImmediate(resolve))
-    const logs = crewReviewLogs(sqlite, crewId)
+    const logs = crewReviewLogs(sqlite, crewId).map(({ trackId, calledAt, grade }) => ({ trackId, calledAt, grade }))
     const out = await fitInChild(logs, {
       onProgress: (share) => {
         if (share - last >= 0.05) {
@@ -149,7 +149,8 @@ const CURVE_DAYS = Array.from({ length: 31 }, (_, i) => i)
 export function crewFitView(sqlite: Database, crewId: string): CrewFitView {
   const row = sqlite.prepare(SELECT_ROW).get(crewId) as Row | undefined
   const fittedWeights = row?.fittedWeights ? JSON.parse(row.fittedWeights) as number[] : null
-  const tracks = byTrack(crewReviewLogs(sqlite, crewId))
+  const logs = crewReviewLogs(sqlite, crewId)
+  const tracks = byTrack(logs)
   const calls = tracks.reduce((s, t) => s + t.length, 0)
   return {
     crewId,
@@ -166,5 +167,31 @@ export function crewFitView(sqlite: Database, crewId: string): CrewFitView {
     finishedAt: row?.finishedAt ?? null,
     curve: { days: CURVE_DAYS, defaults: firstCurve(default_w, CURVE_DAYS), fitted: fittedWeights ? firstCurve(fittedWeights, CURVE_DAYS) : null },
     calibration: { defaults: calibration(tracks, undefined), fitted: fittedWeights ? calibration(tracks, fittedWeights) : null },
+    people: peopleOf(sqlite, logs, row?.adoptedWeights ? JSON.parse(row.adoptedWeights) as number[] : undefined),
   }
+}
+
+/** Each person with calls on the crew's decks: their calls against the crew's parameters in use. */
+function peopleOf(sqlite: Database, logs: readonly (ReviewLog & { userId: string })[], inUse: readonly number[] | undefined): PersonFitView[] {
+  const byUser = new Map<string, ReviewLog[]>()
+  for (const log of logs) {
+    const list = byUser.get(log.userId)
+    if (list) list.push(log)
+    else byUser.set(log.userId, [log])
+  }
+  const nameOf = sqlite.prepare('SELECT name FROM users WHERE id = ?')
+  return [...byUser].map(([userId, own]) => {
+    const tracks = byTrack(own)
+    // a prediction is made for every call after a track's first
+    const calls = own.length - tracks.length
+    const enough = calls >= MIN_PERSON_CALLS
+    return {
+      userId,
+      name: (nameOf.get(userId) as { name: string } | undefined)?.name ?? 'Unknown',
+      calls,
+      needed: Math.max(0, MIN_PERSON_CALLS - calls),
+      forgetting: enough ? forgettingByGap(tracks, inUse) : null,
+      calibration: enough ? calibration(tracks, inUse) : null,
+    }
+  }).sort((a, b) => a.name.localeCompare(b.name) || a.userId.localeCompare(b.userId))
 }

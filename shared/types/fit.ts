@@ -7,6 +7,30 @@ export interface CalibrationBin {
   count: number
 }
 
+/** Calls after a track's first, grouped by whole days since the track's previous call. */
+export interface ForgettingBin {
+  // the bin's first and last gap in whole days (null: open-ended), the mean gap of its calls
+  fromDays: number
+  toDays: number | null
+  meanDays: number
+  // mean recall the crew's parameters in use predicted for these calls, share right, how many
+  predicted: number
+  observed: number
+  count: number
+}
+
+/** One person of the crew: their calls against the parameters the crew uses, once there are enough. */
+export interface PersonFitView {
+  userId: string
+  name: string
+  // calls after a track's first (the ones a prediction is made for)
+  calls: number
+  // how many more are needed before the pictures are drawn (0: drawn)
+  needed: number
+  forgetting: ForgettingBin[] | null
+  calibration: CalibrationBin[] | null
+}
+
 export interface CrewFitView {
   crewId: string
   status: 'idle' | 'running' | 'done' | 'too-few' | 'failed'
@@ -23,4 +47,6 @@ export interface CrewFitView {
   // the forgetting curve after a first call graded sure: days, default and fitted recall
   curve: { days: number[], defaults: number[], fitted: number[] | null }
   calibration: { defaults: CalibrationBin[], fitted: CalibrationBin[] | null }
+  // each person of the crew with calls on its decks, by name
+  people: PersonFitView[]
 }

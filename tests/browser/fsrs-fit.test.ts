@@ -1,5 +1,6 @@
 // The crew's fitted scheduling parameters on screen: an instructor opens them from the crew page,
-// starts a fit, watches it finish, and sees both figures and the two charts (phone and desktop).
+// starts a fit, watches it finish, and sees both figures, the two charts and one person's two
+// (phone and desktop).
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
@@ -30,7 +31,9 @@ describe('how a crew forgets (instructor)', () => {
         expect.stringMatching(/^\d\.\d{4}$/), expect.stringMatching(/^\d\.\d{4}$/),
       ])
       await expect.poll(() => page.locator('[data-test=fit-state]').textContent(), { timeout: 120_000 }).toMatch(/In use: the (default parameters|parameters fitted to this crew)/)
-      await expect.poll(() => page.locator('canvas').count()).toBe(2)
+      // the crew's two charts, then the first person with enough calls and their two
+      await page.getByRole('heading', { name: 'Each person' }).waitFor()
+      await expect.poll(() => page.locator('canvas').count()).toBe(4)
       await shot(page, `fsrs-fit-${size}`)
       await context.close()
     }, 180_000)

@@ -79,6 +79,20 @@ describe('per-crew FSRS parameters', () => {
       expect(b.observed).toBeLessThanOrEqual(1)
     }
 
+    // Each person with calls: every call after a track's first lands in one bin of each picture, and
+    // the pictures are drawn only from MIN_PERSON_CALLS = 100 such calls (design value).
+    expect(view.people.length).toBeGreaterThan(0)
+    for (const p of view.people) {
+      expect(p.needed).toBe(Math.max(0, 100 - p.calls))
+      if (p.needed > 0) {
+        expect(p.forgetting).toBeNull()
+        continue
+      }
+      expect(p.forgetting!.reduce((s, b) => s + b.count, 0)).toBe(p.calls)
+      expect(p.calibration!.reduce((s, b) => s + b.count, 0)).toBe(p.calls)
+    }
+    expect(view.people.some(p => p.needed === 0)).toBe(true)
+
     // The page a lead or instructor opens from the crew page renders the figures.
     const instructor = await signedIn('instructor@glint.demo')
     const page = await instructor.get(`/crews/${fx.crewId}/memory`)
@@ -86,6 +100,7 @@ describe('per-crew FSRS parameters', () => {
     expect(page.text).toContain('Log loss')
     expect(page.text).toContain(view.fitted.logLoss!.toFixed(4))
     expect(page.text).toContain(view.defaults.logLoss!.toFixed(4))
+    expect(page.text).toContain(`${view.people[0]!.name} (${view.people[0]!.calls} calls)`)
 
     // A first call graded sure: FSRS sets S0 = w[Good − 1] = w[2] of the set in use (FSRS algorithm,
     // check-values.md): the fitted w[2] when adopted, else the default 2.3065 days.
@@ -135,6 +150,15 @@ describe('per-crew FSRS parameters', () => {
     expect(view.fitted.logLoss!).toBeLessThan(view.defaults.logLoss!)
     expect(view.adopted).toBe(true)
     const adopted = adoptedOf(crewId)!
+    // The trainee's own forgetting picture: 1650 calls after a track's first; at gaps of 1 and 2
+    // days the share right lies within four binomial standard errors of the curve the calls were
+    // drawn from, R = 0.5^(gap / 3 days) (design value; the error bound is common practice).
+    const person = view.people.find(p => p.userId === trainee.id)!
+    expect(person.calls).toBe(150 * 11)
+    for (const b of person.forgetting!.filter(x => x.fromDays === 1 || x.fromDays === 2)) {
+      const p = 0.5 ** (b.fromDays / 3)
+      expect(Math.abs(b.observed - p)).toBeLessThan(4 * Math.sqrt(p * (1 - p) / b.count))
+    }
     // Steeper forgetting than the default first stability of 2.3065 days (FSRS-6 defaults, ts-fsrs constant.ts).
     expect(adopted[2]!).toBeLessThan(2.3065)
     // ts-fsrs starts a track at S0 = max(w[G − 1], 0.1) (its init_stability; FSRS algorithm as in check-values.md)

@@ -4,7 +4,7 @@
 // value), so a fit to them must predict held-out calls better than the defaults.
 import { describe, expect, it } from 'vitest'
 import { default_w } from 'ts-fsrs'
-import { calibration, byTrack, MIN_FIT_CALLS, shouldAdopt } from '../../../server/core/scheduling/fit'
+import { calibration, byTrack, forgettingByGap, MIN_FIT_CALLS, shouldAdopt } from '../../../server/core/scheduling/fit'
 import { fitParameters, toItems } from '../../../server/core/scheduling/optimize'
 import type { ReviewLog } from '../../../server/core/scheduling/fit'
 
@@ -82,4 +82,22 @@ describe('fitting FSRS parameters to a crew\'s calls', () => {
     const observed = bins.reduce((s, b) => s + b.observed * b.count, 0) / bins.reduce((s, b) => s + b.count, 0)
     expect(predicted).toBeGreaterThan(observed + 0.1)
   }, 120_000)
+
+  it('a person\'s forgetting by days since the previous call follows the curve their calls were drawn from', () => {
+    const logs = synthetic(150, 12, 11)
+    const bins = forgettingByGap(byTrack(logs), undefined)
+    // every call after a track's first is in one bin
+    expect(bins.reduce((s, b) => s + b.count, 0)).toBe(150 * 11)
+    // gaps drawn from 1..6 whole days fall in the bins 1, 2, 3-4 and 5-7
+    expect(bins.map(b => [b.fromDays, b.toDays])).toEqual([[1, 1], [2, 2], [3, 4], [5, 7]])
+    for (const b of bins.slice(0, 2)) {
+      // R = 0.5^(gap / 1.5 days), the generating curve (design value); within four binomial
+      // standard errors sqrt(p(1 − p)/n) of it (common practice, no source)
+      const p = 0.5 ** (b.fromDays / 1.5)
+      expect(b.meanDays).toBe(b.fromDays)
+      expect(Math.abs(b.observed - p)).toBeLessThan(4 * Math.sqrt(p * (1 - p) / b.count))
+      // FSRS-6's defaults forget far slower: their predicted recall lies above what was observed
+      expect(b.predicted).toBeGreaterThan(b.observed + 0.1)
+    }
+  })
 })

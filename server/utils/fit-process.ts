@@ -48,7 +48,9 @@ export interface FitInChildOptions {
 export function fitInChild(logs: readonly ReviewLog[], opts: FitInChildOptions = {}): Promise<FitOutcome> {
   const { filename, execArgv } = opts.entry ?? fitChildEntry()
   return new Promise<FitOutcome>((resolvePromise, reject) => {
-    const child = fork(filename, [], { execArgv, serialization: 'advanced', stdio: ['ignore', 'ignore', 'pipe', 'ipc'] })
+    // the child needs none of the server's settings or secrets: only what finds programs and libraries
+    const env = { PATH: process.env.PATH ?? '', NODE_ENV: process.env.NODE_ENV ?? 'production' }
+    const child = fork(filename, [], { execArgv, env, serialization: 'advanced', stdio: ['ignore', 'ignore', 'pipe', 'ipc'] })
     let stderr = ''
     let settled = false
     const settle = (fn: () => void) => {

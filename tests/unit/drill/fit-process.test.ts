@@ -40,4 +40,15 @@ describe('the fit in a child process', () => {
     const error = await fitInChild(logs, { entry: { filename: resolve('tests/fixtures/fit-child-hangs.mjs'), execArgv: [] }, timeoutMs: 2000 }).then(() => null, (e: unknown) => e)
     expect((error as Error).message).toBe('it took longer than 2 s and was stopped')
   })
+
+  it('the child gets none of the server\'s settings or secrets (least privilege, OWASP)', async () => {
+    process.env.NUXT_SESSION_PASSWORD = 'a-secret-the-child-must-not-see'
+    try {
+      const error = await fitInChild(logs, { entry: { filename: resolve('tests/fixtures/fit-child-env.mjs'), execArgv: [] } }).then(() => null, (e: unknown) => e)
+      expect((error as Error).message).toBe('NODE_ENV,PATH')
+    }
+    finally {
+      delete process.env.NUXT_SESSION_PASSWORD
+    }
+  })
 })

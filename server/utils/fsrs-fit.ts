@@ -43,35 +43,27 @@ export function crewReviewLogs(sqlite: Database, crewId: string): (ReviewLog & {
 
 // ---------------------------------------------------------------- the weights a call uses
 
-// crew id → adopted weights (null: defaults); user|deck → crew id. Cleared when a fit ends.
+// crew id → adopted weights (null: defaults); cleared when a fit ends. The trainee's crew is looked
+// up on every call (one indexed read), so a move to another crew takes effect at once.
 const adoptedCache = new Map<string, readonly number[] | null>()
-const crewOfCache = new Map<string, string | null>()
 
 /** The adopted weights for a trainee's call on a deck: those of the trainee's crew the deck is assigned to (first by id). */
 export function weightsForCall(sqlite: Database, userId: string, deckId: string): readonly number[] | undefined {
-  const key = `${userId}|${deckId}`
-  let crewId = crewOfCache.get(key)
-  if (crewId === undefined) {
-    const row = sqlite.prepare(`SELECT m.crew_id AS crewId FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id AND dc.deck_id = ?
-      WHERE m.user_id = ? ORDER BY m.crew_id LIMIT 1`).get(deckId, userId) as { crewId: string } | undefined
-    crewId = row?.crewId ?? null
-    if (crewOfCache.size > 10_000) crewOfCache.clear()
-    crewOfCache.set(key, crewId)
-  }
-  if (crewId === null) return undefined
-  let weights = adoptedCache.get(crewId)
+  const row = sqlite.prepare(`SELECT m.crew_id AS crewId FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id AND dc.deck_id = ?
+    WHERE m.user_id = ? ORDER BY m.crew_id LIMIT 1`).get(deckId, userId) as { crewId: string } | undefined
+  if (!row) return undefined
+  let weights = adoptedCache.get(row.crewId)
   if (weights === undefined) {
-    const row = sqlite.prepare('SELECT adopted_weights AS w FROM crew_fsrs_params WHERE crew_id = ?').get(crewId) as { w: string | null } | undefined
-    weights = row?.w ? JSON.parse(row.w) as number[] : null
-    adoptedCache.set(crewId, weights)
+    const fit = sqlite.prepare('SELECT adopted_weights AS w FROM crew_fsrs_params WHERE crew_id = ?').get(row.crewId) as { w: string | null } | undefined
+    weights = fit?.w ? JSON.parse(fit.w) as number[] : null
+    adoptedCache.set(row.crewId, weights)
   }
   return weights ?? undefined
 }
 
-/** Forget cached crews and weights (a fit ended, or memberships or deck assignments changed). */
+/** Forget the cached weights (a fit ended). */
 export function forgetCrewWeights(): void {
   adoptedCache.clear()
-  crewOfCache.clear()
 }
 
 // ---------------------------------------------------------------- running a fit

@@ -41,6 +41,9 @@ export default defineNuxtConfig({
     },
   },
   buildDir: tag ? `.nuxt-${tag}` : '.nuxt',
+  // Other pages' code is fetched when a link is touched or focused, not when it scrolls into view:
+  // on a phone's slow link the watch's own pictures come first. Offline pages come from the service worker.
+  experimental: { defaults: { nuxtLink: { prefetchOn: { visibility: false, interaction: true } } } },
   compatibilityDate: '2025-07-15',
   nitro: {
     output: tag ? { dir: `.output-${tag}` } : undefined,
@@ -92,14 +95,25 @@ export default defineNuxtConfig({
     },
     workbox: {
       navigateFallback: null,
-      // json: Nuxt's build manifest (_nuxt/builds), read when a page opens with no connection.
-      globPatterns: ['**/*.{js,css,woff2,woff,svg,png,json}'],
+      // Control from the first visit, so a page opened once reloads with no connection.
+      clientsClaim: true,
+      skipWaiting: true,
+      // json: Nuxt's build manifest (_nuxt/builds), read when a page opens with no connection;
+      // offline/index.html (precached as /offline): what a page never kept says with no connection.
+      globPatterns: ['**/*.{js,css,woff2,woff,svg,png,json}', 'offline/index.html'],
       cleanupOutdatedCaches: true,
       runtimeCaching: [
         {
           urlPattern: ({ request, url }) => request.mode === 'navigate' && !url.pathname.startsWith('/api/'),
           handler: 'NetworkFirst',
-          options: { cacheName: 'glint-pages', networkTimeoutSeconds: 4, expiration: { maxEntries: 40 } },
+          options: {
+            cacheName: 'glint-pages',
+            networkTimeoutSeconds: 4,
+            expiration: { maxEntries: 40 },
+            // Pages kept by useOfflinePages were fetched, not navigated to: another Accept header.
+            matchOptions: { ignoreVary: true },
+            plugins: [{ handlerDidError: async () => (await caches.match('/offline', { ignoreSearch: true })) ?? Response.error() }],
+          },
         },
         {
           urlPattern: ({ url }) => url.pathname.startsWith('/images/') || url.pathname.startsWith('/masks/'),

@@ -15,8 +15,11 @@ export default {
         ok: { DEFAULT: '#1f6f43', soft: '#dcf1e4' },
         warn: { DEFAULT: '#8a5a00', soft: '#fff1cc' },
         bad: { DEFAULT: '#a4262c', soft: '#fbe3e4' },
-        night: { bg: '#0a0000', panel: '#1a0303', text: '#d23c3c', dim: '#7a1f1f', line: '#3a0a0a' },
+        // Pure reds: no colour above WCAG relative luminance 0.05 (text #800000: 0.046), green and blue 0.
+        night: { bg: '#0a0000', panel: '#1a0000', text: '#800000', dim: '#5a0000', line: '#3a0000' },
       },
+      // A phone held sideways: wide and short (844x390 and the like).
+      screens: { short: { raw: '(orientation: landscape) and (max-height: 560px)' } },
       minHeight: { tap: '3rem' },
       minWidth: { tap: '3rem' },
     },

@@ -27,6 +27,8 @@ export interface StoredWatch {
   results: ShownResult[]
   voided: number
   savedAt: number
+  // introductions already read (absent in watches stored before introductions)
+  introsSeen?: string[]
 }
 
 export interface QueuedCall {

@@ -1,4 +1,5 @@
 import type { WatchToday } from '#shared/types/drill'
+import { workloadText } from '~/utils/workload'
 
 // Client-side only: when the counts were last asked for (they change after every watch).
 let askedAt = 0
@@ -21,14 +22,10 @@ export function useWatchToday() {
   return { today, refresh }
 }
 
-/** The home card text for today's watch. */
-export function watchCardText(today: WatchToday | null): string {
+/** The home card text for today's watch: the watch page's own words (workloadText), deck by deck. */
+export function watchCardText(today: WatchToday | null, relative?: (ms: number) => string): string {
   if (!today) return 'Your daily drill: timed flash sightings of your crew\'s decks.'
   if (!today.decks.length) return 'No deck is assigned to your crew yet.'
-  const open = today.decks.reduce((n, d) => n + d.openLeft, 0)
-  if (open) return `${open} sighting${open === 1 ? '' : 's'} left in today's watch.`
-  const due = today.decks.reduce((n, d) => n + d.due, 0)
-  const fresh = today.decks.reduce((n, d) => n + d.new, 0)
-  if (!due && !fresh) return 'Nothing due today.'
-  return `${due} due and ${fresh} new sighting${due + fresh === 1 ? '' : 's'} today.`
+  if (today.decks.length === 1) return workloadText(today.decks[0]!, relative)
+  return today.decks.map(d => `${d.title}: ${workloadText(d, relative)}`).join('. ')
 }

@@ -3,7 +3,8 @@
 // Offline: the watch and its pack are kept in IndexedDB; calls made with no connection are graded
 // here with the shared gradeCall, queued with their own time and sent in order when it returns.
 import { defineStore } from 'pinia'
-import type { CallResult, IssuedSighting, IssuedWatch, PackSighting, WatchPack } from '#shared/types/drill'
+import { watch as observe } from 'vue'
+import type { CallResult, Introduction, IssuedSighting, IssuedWatch, PackSighting, WatchPack } from '#shared/types/drill'
 import type { CallInput } from '#shared/schemas/drill'
 import { gradeCall } from '#shared/utils/grade'
 import { matchTypedAnswer } from '#shared/utils/typed-answer'
@@ -16,7 +17,7 @@ const RESHOW_GAP = 3
 const RETRY_FIRST_MS = 1000
 const RETRY_MAX_MS = 30_000
 
-export type WatchPhase = 'idle' | 'loading' | 'running' | 'feedback' | 'summary' | 'error'
+export type WatchPhase = 'idle' | 'loading' | 'introduction' | 'running' | 'feedback' | 'summary' | 'error'
 
 export interface FrameEntry { sightingId: string, framesShown: number, frameIntervalMs: number }
 
@@ -43,6 +44,8 @@ export const useWatchStore = defineStore('watch', () => {
   const syncing = ref(false)
   // refused calls and other-device answers, shown until the trainee has read them
   const notices = ref<SyncNotice[]>([])
+  // introductions read (not calls: nothing is sent for them)
+  const introsSeen = ref<string[]>([])
   const frames: FrameEntry[] = []
   let pack: WatchPack | null = null
   let extra: IssuedSighting[] = []
@@ -52,6 +55,46 @@ export const useWatchStore = defineStore('watch', () => {
 
   const current = computed(() => queue.value[index.value] ?? null)
   const lastResult = computed(() => results.value[results.value.length - 1] ?? null)
+  // A sighting runs only once its picture and mask are decoded (its exposure is timed from the first frame).
+  const currentReady = computed(() => !!current.value && images.value.has(current.value.imageUrl) && images.value.has(current.value.maskUrl))
+  const introductions = computed<Introduction[]>(() => watch.value?.introductions ?? pack?.introductions ?? [])
+  // The introduction to read before the current sighting, if one is left.
+  const currentIntro = computed(() => {
+    const s = current.value
+    if (!s) return null
+    const seen = new Set(introsSeen.value)
+    return introductions.value.find(i => i.beforeSightingId === s.id && !seen.has(i.id)) ?? null
+  })
+  // "Sighting n of N" counts first sightings only; re-shows of missed ones are counted apart.
+  const progress = computed(() => {
+    const upTo = queue.value.slice(0, index.value + 1)
+    return {
+      n: upTo.filter(s => !s.reshow).length,
+      total: queue.value.filter(s => !s.reshow).length,
+      reshow: current.value?.reshow ? upTo.filter(s => s.reshow).length : 0,
+      reshows: queue.value.filter(s => s.reshow).length,
+    }
+  })
+
+  // Sightings run once their introductions (if any) have been read.
+  function enterSighting() {
+    phase.value = currentIntro.value ? 'introduction' : 'running'
+  }
+
+  /** The current introduction has been read: the next one, or the sighting. */
+  function seeIntroduction() {
+    const i = currentIntro.value
+    if (!i || phase.value !== 'introduction') return
+    introsSeen.value = [...introsSeen.value, i.id]
+    enterSighting()
+    void persist()
+  }
+
+  const introUrls = (list: Introduction[]) => list.flatMap(i => [i.imageUrl, i.lookAlike?.imageUrl]).filter((u): u is string => !!u)
+  // The pictures reveals show (the answer's, and each choice's for a wrong call): fetched once in the
+  // background so the service worker keeps them for a reveal with no connection.
+  const revealUrls = (p: WatchPack | null) => (p?.sightings ?? [])
+    .flatMap(s => [s.answer.imageUrl, ...(s.choiceTypes ?? []).map(c => c.imageUrl)]).filter((u): u is string => !!u)
 
   if (import.meta.client && !Object.getOwnPropertyDescriptor(window, '__glintFrames')) {
     Object.defineProperty(window, '__glintFrames', { get: () => Object.freeze(frames.map(f => ({ ...f }))), configurable: false })
@@ -73,11 +116,11 @@ export const useWatchStore = defineStore('watch', () => {
     }
   }
 
+  // Each image is usable as soon as it is decoded, so a sighting waits for its own pictures only.
   async function preload(urls: string[]) {
-    const map = new Map(images.value)
     loaded.value = 0
     await Promise.all([...new Set(urls)].map(async (url) => {
-      if (map.has(url)) {
+      if (images.value.has(url)) {
         loaded.value++
         return
       }
@@ -85,16 +128,28 @@ export const useWatchStore = defineStore('watch', () => {
       el.decoding = 'async'
       el.src = url
       await el.decode()
-      map.set(url, { el, background: url.startsWith('/masks/') ? '#000' : backgroundOf(el) })
+      images.value = new Map(images.value).set(url, { el, background: url.startsWith('/masks/') ? '#000' : backgroundOf(el) })
       loaded.value++
     }))
-    images.value = map
   }
 
   // Each image fetched once, so the service worker keeps it for a watch with no connection.
   function warm(urls: string[]) {
     return Promise.allSettled([...new Set(urls)].map(u => fetch(u, { credentials: 'same-origin' })))
   }
+
+  // A sighting reached before the background loading brought its pictures loads them now.
+  observe([current, phase], async () => {
+    const s = current.value
+    if (!import.meta.client || !s || phase.value !== 'running' || currentReady.value) return
+    try {
+      await preload([s.imageUrl, s.maskUrl])
+    }
+    catch {
+      error.value = 'The pictures of this sighting did not load. Check the connection, then open the watch again: your calls so far are kept.'
+      phase.value = 'error'
+    }
+  })
 
   async function persist() {
     const w = watch.value
@@ -110,6 +165,7 @@ export const useWatchStore = defineStore('watch', () => {
       results: results.value,
       voided: voided.value,
       savedAt: Date.now(),
+      introsSeen: introsSeen.value,
     }
     await offlineWatch.save(record).catch(() => {})
   }
@@ -133,12 +189,12 @@ export const useWatchStore = defineStore('watch', () => {
     void sync()
   }
 
-  async function start(deckId?: string) {
+  async function start(deckId?: string, practice = false) {
     phase.value = 'loading'
     error.value = null
     let w: IssuedWatch
     try {
-      w = await useWatchApi().issue(deckId)
+      w = await useWatchApi().issue(deckId, practice)
     }
     catch (e) {
       if (isNetworkFailure(e) && await resume()) return
@@ -155,16 +211,27 @@ export const useWatchStore = defineStore('watch', () => {
       index.value = 0
       results.value = stored?.results.filter(r => waitingIds.has(r.sightingId)) ?? []
       voided.value = 0
+      introsSeen.value = stored?.introsSeen ?? []
       extra = []
       if (!queue.value.length) {
         phase.value = 'summary'
         return
       }
-      pack = w.id ? await useWatchApi().pack(w.id).catch(() => stored?.pack ?? null) : null
+      // The pack (for calls with no connection) comes while the first pictures load; the watch
+      // starts as soon as what it shows first is decoded, and the rest follows in queue order.
+      const packed = w.id ? useWatchApi().pack(w.id).catch(() => stored?.pack ?? null) : Promise.resolve(null)
       const urls = queue.value.flatMap(s => [s.imageUrl, s.maskUrl])
-      await Promise.all([preload(urls), warm(urls)])
-      await persist()
-      phase.value = 'running'
+      const intros = introUrls(w.introductions ?? [])
+      const intro = currentIntro.value
+      await preload(intro ? introUrls([intro]) : urls.slice(0, 2))
+      enterSighting()
+      void (async () => {
+        pack = await packed
+        await persist()
+        await preload([...urls, ...intros]).catch(() => {})
+        // Fetched once more after they are shown, so a service worker that took control late keeps them too.
+        await warm([...urls, ...intros, ...revealUrls(pack)])
+      })()
     }
     catch (e) {
       error.value = errorMessage(e)
@@ -185,6 +252,7 @@ export const useWatchStore = defineStore('watch', () => {
     extra = s.extra
     results.value = s.results
     voided.value = s.voided
+    introsSeen.value = s.introsSeen ?? []
     queue.value = left
     index.value = 0
     if (!left.length) {
@@ -193,13 +261,15 @@ export const useWatchStore = defineStore('watch', () => {
     }
     try {
       await preload(left.flatMap(x => [x.imageUrl, x.maskUrl]))
+      // Introductions' pictures that did not reach the phone show their words alone.
+      await preload(introUrls(s.watch.introductions ?? s.pack?.introductions ?? [])).catch(() => {})
     }
     catch {
       error.value = 'The images of this watch are not on this phone. Open the watch again when you are back online.'
       phase.value = 'error'
       return true
     }
-    phase.value = 'running'
+    enterSighting()
     return true
   }
 
@@ -223,9 +293,12 @@ export const useWatchStore = defineStore('watch', () => {
       hesitationMs: Math.min(p.hesitationMs, p.windowMs),
       windowMs: p.windowMs,
     })
+    // A wrong name: the called type and its picture from the pack, as the server's reveal has them.
+    const other = !correct && body.choiceId ? p.choiceTypes?.find(c => c.choiceId === body.choiceId) : undefined
+    const called = other ? { name: other.name, aspect: other.aspect, features: other.features, imageUrl: other.imageUrl } : null
     return {
       sightingId: s.id, grade, correct, anticipation, calledChoiceId: body.choiceId ?? null, answer: p.answer,
-      latencyMs: body.latencyMs, calledAt, track: { stage: 'new', due: calledAt }, local: true,
+      latencyMs: body.latencyMs, calledAt, track: { stage: 'new', due: calledAt }, local: true, called,
     }
   }
 
@@ -354,7 +427,7 @@ export const useWatchStore = defineStore('watch', () => {
     }
     else {
       index.value++
-      phase.value = 'running'
+      enterSighting()
     }
     void persist()
   }
@@ -389,10 +462,11 @@ export const useWatchStore = defineStore('watch', () => {
     queue.value = []
     index.value = 0
     results.value = []
+    introsSeen.value = []
   }
 
   return {
-    watch, queue, index, results, voided, phase, error, loaded, images, current, lastResult, waiting, syncing, notices,
-    attach, start, resume, call, sync, online, dismiss, next, voidCurrent, reset,
+    watch, queue, index, results, voided, phase, error, loaded, images, current, currentReady, lastResult, waiting, syncing, notices,
+    currentIntro, progress, attach, start, resume, call, sync, online, dismiss, next, voidCurrent, reset, seeIntroduction,
   }
 })

@@ -6,7 +6,7 @@ export interface HomeCard { title: string, text: string, to: string, action: str
 export function homeCardsFor(me: Me | null, _has: (...r: Role[]) => boolean): HomeCard[] {
   if (!me) return []
   const cards: HomeCard[] = []
-  if (_has('trainee')) cards.push({ title: 'Today\'s watch', text: watchCardText(useWatchToday().today.value), to: '/watch', action: 'Start watch', primary: true })
+  if (_has('trainee')) cards.push({ title: 'Today\'s watch', text: watchCardText(useWatchToday().today.value, useDates().relative), to: '/watch', action: 'Start watch', primary: true })
   if (_has('trainee')) cards.push({ title: 'Scan drill', text: 'Search a sector in steps through the binocular field and report what you find.', to: '/scan', action: 'Start a scan' })
   if (_has('instructor')) cards.push({ title: 'Decks', text: 'Build decks of target types: upload silhouettes, check them in every light, publish and assign them to your crews.', to: '/decks', action: 'Open the deck builder', primary: !_has('trainee') })
   if (_has('trainee')) cards.push({ title: 'Your progress', text: 'Your recognition speed and accuracy over time, what you mix up, and what is missing to be ready.', to: '/people/me', action: 'See your progress' })

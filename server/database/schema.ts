@@ -197,6 +197,8 @@ export const watches = sqliteTable('watches', {
   checkId: text('check_id'),
   day: text('day').notNull(), // YYYY-MM-DD, the trainee's watch day
   status: text('status').notNull().default('open'), // open | closed
+  // a practice watch, asked for when nothing was due; its calls count like any other
+  practice: integer('practice', { mode: 'boolean' }).notNull().default(false),
   ...timestamps,
   closedAt: integer('closed_at'),
 }, t => [index('watches_user_day_idx').on(t.userId, t.day)])
@@ -222,6 +224,33 @@ export const sightings = sqliteTable('sightings', {
   voidedAt: integer('voided_at'),
   issuedAt: integer('issued_at').notNull(),
 }, t => [index('sightings_watch_idx').on(t.watchId, t.position)])
+
+// A picture a watch shows by an opaque id (introductions, reveals): one rendering of a type at an
+// aspect, served only to the trainee the watch was issued to (server/routes/images/p/).
+export const pictures = sqliteTable('pictures', {
+  id: text('id').primaryKey(),
+  watchId: text('watch_id').notNull().references(() => watches.id, { onDelete: 'cascade' }),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  aspect: text('aspect').notNull(),
+  variantId: text('variant_id').notNull().references(() => variants.id, { onDelete: 'cascade' }),
+}, t => [uniqueIndex('pictures_watch_type_aspect_uq').on(t.watchId, t.targetTypeId, t.aspect)])
+
+// A track's introduction: shown just before the sighting `before_sighting_id` (several in `ord` order);
+// not a call, no schedule change.
+export const introductions = sqliteTable('introductions', {
+  id: text('id').primaryKey(),
+  watchId: text('watch_id').notNull().references(() => watches.id, { onDelete: 'cascade' }),
+  userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  trackId: text('track_id').notNull().references(() => tracks.id, { onDelete: 'cascade' }),
+  beforeSightingId: text('before_sighting_id').notNull().references(() => sightings.id, { onDelete: 'cascade' }),
+  ord: integer('ord').notNull(),
+  targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
+  aspect: text('aspect').notNull(),
+  pictureId: text('picture_id').notNull().references(() => pictures.id, { onDelete: 'cascade' }),
+  lookAlikeTypeId: text('look_alike_type_id').references(() => targetTypes.id, { onDelete: 'set null' }),
+  lookAlikePictureId: text('look_alike_picture_id').references(() => pictures.id, { onDelete: 'set null' }),
+}, t => [index('introductions_watch_idx').on(t.watchId, t.ord)])
 
 // One call per sighting (the unique index makes a resend count once).
 export const calls = sqliteTable('calls', {

@@ -1,14 +1,14 @@
 // Plans a watch from a deck's content and a trainee's tracks: the one function that decides
 // what a watch shows (queue, view, condition, range, exposure, choices). Pure apart from the
 // random sources it is given, so the server and the demo history seed run the same code.
-import { buildWatchQueue, insertReshow } from '../core/watch/queue'
+import { buildPracticeQueue, buildWatchQueue, insertReshow, placeIntroductions, PRACTICE_SIZE } from '../core/watch/queue'
 import type { QueueTrack } from '../core/watch/queue'
 import { planSighting } from '../core/watch/sighting-plan'
-import { makeChoiceIds, pickChoices } from '../core/watch/choices'
+import { makeChoiceIds, pickChoices, sharedFeatureCount } from '../core/watch/choices'
 import { seedFromString } from '../core/watch/rng'
 import type { Rng } from '../core/watch/rng'
 import type { TrackState } from '../core/scheduling/fsrs'
-import { isCondition } from '../../shared/utils/conditions'
+import { CONDITION_DIFFICULTY, isCondition } from '../../shared/utils/conditions'
 import { NEW_TRACK_MAX_EXPOSURE_MS } from '../../shared/utils/exposure'
 
 // Longest watch: a few minutes on a phone (common practice for short daily drills, no source).
@@ -179,14 +179,39 @@ export interface PlanWatchInput extends PlanContext {
   maxSightings?: number
 }
 
+export interface PlannedIntroduction {
+  trackId: string
+  targetTypeId: string
+  aspect: string
+  // index in the planned sightings of the sighting it is shown just before
+  beforeIndex: number
+  lookAlikeTypeId: string | null
+}
+
+export interface PlannedWatch { sightings: PlannedSighting[], introductions: PlannedIntroduction[] }
+
 /**
  * The day's watch: the queue of buildWatchQueue (due first by retrievability, new up to the
  * deck's limit less those introduced today, no type twice in a row), each sighting planned.
  */
 export function planWatch(input: PlanWatchInput): PlannedSighting[] {
+  return planWatchItems(input).sightings
+}
+
+/**
+ * The day's watch with its introductions: each new track is introduced (placeIntroductions) before
+ * its first timed sighting, beside its nearest look-alike. A practice watch (asked for when nothing is
+ * due) takes buildPracticeQueue's tracks instead and introduces nothing.
+ */
+export function planWatchItems(input: PlanWatchInput & { practice?: boolean }): PlannedWatch {
   const { content, tracks, nowMs } = input
   const drillable = new Set(drillableKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
   const usable = tracks.filter(t => drillable.has(`${t.targetTypeId}|${t.aspect}`))
+  const byId = new Map(usable.map(t => [t.id, t]))
+  if (input.practice) {
+    const queue = buildPracticeQueue({ tracks: usable, nowMs, confusedTypeIds: worstConfusedTypes(input.confusions), size: PRACTICE_SIZE })
+    return { sightings: queue.map(id => planTrackSighting(byId.get(id)!, input)), introductions: [] }
+  }
   const queue = buildWatchQueue({
     tracks: usable,
     nowMs,
@@ -195,8 +220,74 @@ export function planWatch(input: PlanWatchInput): PlannedSighting[] {
     newIntroducedToday: input.newIntroducedToday,
     maxSightings: input.maxSightings ?? WATCH_MAX_SIGHTINGS,
   })
-  const byId = new Map(usable.map(t => [t.id, t]))
-  return queue.map(id => planTrackSighting(byId.get(id)!, input))
+  const sightings = queue.map(id => planTrackSighting(byId.get(id)!, input))
+  const fresh = new Set(queue.filter(id => byId.get(id)!.state.reps === 0))
+  const introductions: PlannedIntroduction[] = []
+  let k = 0
+  for (const item of placeIntroductions(queue, fresh)) {
+    if (item.kind === 'sighting') {
+      k++
+      continue
+    }
+    const t = byId.get(item.trackId)!
+    introductions.push({
+      trackId: t.id, targetTypeId: t.targetTypeId, aspect: t.aspect, beforeIndex: k,
+      lookAlikeTypeId: nearestLookAlike(content, t.targetTypeId, input.confusions),
+    })
+  }
+  return { sightings, introductions }
+}
+
+/** Is there anything to practise: a track called before (practice takes nothing else)? */
+export function canPractise(tracks: readonly PlanTrack[]) {
+  return tracks.some(t => t.state.reps > 0)
+}
+
+// Type ids of the crew's confused pairs, the most frequent pair first, both sides of each pair.
+function worstConfusedTypes(confusions: PlanContext['confusions']): string[] {
+  const pairs: { a: string, b: string, n: number }[] = []
+  for (const [shown, called] of confusions) for (const [other, n] of called) pairs.push({ a: shown, b: other, n })
+  pairs.sort((x, y) => y.n - x.n || (x.a + x.b < y.a + y.b ? -1 : 1))
+  return [...new Set(pairs.flatMap(p => [p.a, p.b]))]
+}
+
+/**
+ * The type a trainee is most likely to take for `typeId`: of its category, ranked by the crew's
+ * confusions (both ways), the instructor's look-alikes, shared feature words, then deck order.
+ */
+export function nearestLookAlike(content: DeckContent, typeId: string, confusions: PlanContext['confusions']): string | null {
+  const type = content.types.find(t => t.id === typeId)
+  if (!type) return null
+  const marked = content.lookAlikes.get(typeId)
+  const confused = (other: string) => (confusions.get(typeId)?.get(other) ?? 0) + (confusions.get(other)?.get(typeId) ?? 0)
+  const hasView = new Set(viewsWithRenderings(content).map(v => v.targetTypeId))
+  const ranked = content.types
+    .map((t, i) => ({ t, i }))
+    .filter(x => x.t.id !== typeId && x.t.category === type.category && hasView.has(x.t.id))
+    .sort((x, y) => confused(y.t.id) - confused(x.t.id)
+      || Number(!!marked?.has(y.t.id)) - Number(!!marked?.has(x.t.id))
+      || sharedFeatureCount(y.t.features, type.features) - sharedFeatureCount(x.t.features, type.features)
+      || x.i - y.i)
+  return ranked[0]?.t.id ?? null
+}
+
+// A picture for teaching is in good light: sunlit first, then the easiest conditions (CONDITION_DIFFICULTY).
+const TEACHING_CONDITIONS = ['sunlit', ...CONDITION_DIFFICULTY.filter(c => c !== 'sunlit')]
+
+/**
+ * The rendering a type is shown in when it is taught (introduction, reveal): at the aspect asked
+ * if the type has a view there, else at its first aspect in introduction order; in good light;
+ * the widest rendering. Null when the type has no rendered view.
+ */
+export function teachingVariant(content: DeckContent, typeId: string, aspect: string): { aspect: string, variant: ContentVariant } | null {
+  const views = viewsWithRenderings(content).filter(v => v.targetTypeId === typeId)
+  if (!views.length) return null
+  const rank = (a: string) => (a === aspect ? -1 : ASPECT_ORDER.indexOf(a) + 1 || ASPECT_ORDER.length + 1)
+  const view = views.slice().sort((a, b) => rank(a.aspect) - rank(b.aspect))[0]!
+  const conditionRank = (c: string) => TEACHING_CONDITIONS.indexOf(c as typeof TEACHING_CONDITIONS[number]) + 1 || 99
+  const variant = view.variants.filter(x => isCondition(x.condition))
+    .sort((a, b) => conditionRank(a.condition) - conditionRank(b.condition) || b.width - a.width)[0]!
+  return { aspect: view.aspect, variant }
 }
 
 /**

@@ -11,11 +11,13 @@ import type { Rng } from '../core/watch/rng'
 import { gradeCall } from '../../shared/utils/grade'
 import { matchTypedAnswer } from '../../shared/utils/typed-answer'
 import type { CallInput } from '../../shared/schemas/drill'
-import type { CallResult, DeckWorkload, IssuedSighting, IssuedWatch, WatchPack, WatchToday } from '../../shared/types/drill'
+import type { CallResult, DeckWorkload, Introduction, IssuedSighting, IssuedWatch, TeachingPicture, WatchPack, WatchToday } from '../../shared/types/drill'
 import {
-  drillableKeys, isUntilCall, maskUrlFor, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatch, reshowOrder, sightingImageUrl, WATCH_MAX_SIGHTINGS,
+  canPractise, drillableKeys, isUntilCall, maskUrlFor, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatchItems, reshowOrder,
+  sightingImageUrl, teachingVariant, WATCH_MAX_SIGHTINGS,
 } from './drill-plan'
-import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedSighting, PlanTrack } from './drill-plan'
+import { PRACTICE_SIZE } from '../core/watch/queue'
+import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from './drill-plan'
 import { newCallId, newId } from './ids'
 import { recordCheckCall } from './checks'
 import { weightsForCall } from './fsrs-fit'
@@ -112,6 +114,21 @@ const SQL = {
   setPosition: `UPDATE sightings SET position = ? WHERE id = ?`,
   maxPosition: `SELECT coalesce(max(position), -1) AS p FROM sightings WHERE watch_id = ?`,
   sightingFile: `SELECT x.file FROM sightings s JOIN variants x ON x.id = s.variant_id WHERE s.id = ? AND s.user_id = ?`,
+  insertPicture: `INSERT INTO pictures (id, watch_id, user_id, target_type_id, aspect, variant_id) VALUES (?, ?, ?, ?, ?, ?)
+    ON CONFLICT (watch_id, target_type_id, aspect) DO NOTHING`,
+  pictureOf: `SELECT id FROM pictures WHERE watch_id = ? AND target_type_id = ? AND aspect = ?`,
+  revealPicture: `SELECT id FROM pictures WHERE watch_id = ? AND target_type_id = ? ORDER BY aspect = ? DESC, aspect LIMIT 1`,
+  pictureFile: `SELECT x.file FROM pictures p JOIN variants x ON x.id = p.variant_id WHERE p.id = ? AND p.user_id = ?`,
+  watchPictures: `SELECT p.id, p.target_type_id AS typeId, p.aspect, t.name, t.features FROM pictures p
+    JOIN target_types t ON t.id = p.target_type_id WHERE p.watch_id = ?`,
+  insertIntroduction: `INSERT INTO introductions (id, watch_id, user_id, track_id, before_sighting_id, ord, target_type_id, aspect,
+    picture_id, look_alike_type_id, look_alike_picture_id) VALUES (@id, @watchId, @userId, @trackId, @beforeSightingId, @ord,
+    @targetTypeId, @aspect, @pictureId, @lookAlikeTypeId, @lookAlikePictureId)`,
+  watchIntroductions: `SELECT i.id, i.before_sighting_id AS beforeSightingId, i.target_type_id AS typeId, i.aspect, i.picture_id AS pictureId,
+    i.look_alike_type_id AS lookAlikeTypeId, i.look_alike_picture_id AS lookAlikePictureId
+    FROM introductions i JOIN sightings s ON s.id = i.before_sighting_id
+    WHERE i.watch_id = ? AND s.voided_at IS NULL AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY i.ord`,
+  watchFlags: `SELECT practice FROM watches WHERE id = ?`,
 } as const
 
 type StatementName = keyof typeof SQL
@@ -287,6 +304,7 @@ function insertPlanned(sqlite: Database, watchId: string, userId: string, p: Pla
 
 function storedWatch(sqlite: Database, watchId: string, content: DeckContent, day: string): IssuedWatch {
   const rows = stmt(sqlite, 'watchSightings').all(watchId) as StoredSightingRow[]
+  const flags = stmt(sqlite, 'watchFlags').get(watchId) as { practice: number } | undefined
   return {
     id: watchId,
     deckId: content.deck.id,
@@ -295,7 +313,86 @@ function storedWatch(sqlite: Database, watchId: string, content: DeckContent, da
     hesitationMs: content.deck.hesitationMs,
     sightings: rows.map(r => issuedFromRow(r, content.deck.answerMode)),
     nextDueAt: null,
+    introductions: introductionsOf(sqlite, watchId),
+    practice: !!flags?.practice,
   }
+}
+
+// ---------------------------------------------------------------- pictures and introductions
+
+const pictureUrl = (id: string) => `/images/p/${id}.webp`
+
+/**
+ * The watch's picture of a type at an aspect (its teaching rendering, teachingVariant), made once per
+ * watch under an opaque id; null when the type has no rendered view.
+ */
+function ensurePicture(sqlite: Database, watchId: string, userId: string, content: DeckContent, typeId: string, aspect: string): { id: string, aspect: string } | null {
+  const v = teachingVariant(content, typeId, aspect)
+  if (!v) return null
+  stmt(sqlite, 'insertPicture').run(newId(), watchId, userId, typeId, v.aspect, v.variant.id)
+  const row = stmt(sqlite, 'pictureOf').get(watchId, typeId, v.aspect) as { id: string }
+  return { id: row.id, aspect: v.aspect }
+}
+
+/**
+ * Stores a new watch's introductions (each before its sighting, in order) and the pictures its
+ * reveals need: each choice's type at the sighting's aspect, so a wrong call can be shown beside the
+ * right one, online or from the pack.
+ */
+function storeTeaching(sqlite: Database, watchId: string, userId: string, content: DeckContent, sightingIds: string[], planned: PlannedSighting[], intros: PlannedIntroduction[]) {
+  planned.forEach((p) => {
+    const typeIds = p.choices.length ? p.choices.map(c => c.typeId) : [p.targetTypeId]
+    for (const typeId of typeIds) ensurePicture(sqlite, watchId, userId, content, typeId, p.aspect)
+  })
+  intros.forEach((intro, ord) => {
+    const picture = ensurePicture(sqlite, watchId, userId, content, intro.targetTypeId, intro.aspect)
+    if (!picture) return
+    const look = intro.lookAlikeTypeId ? ensurePicture(sqlite, watchId, userId, content, intro.lookAlikeTypeId, intro.aspect) : null
+    stmt(sqlite, 'insertIntroduction').run({
+      id: newId(), watchId, userId, trackId: intro.trackId, beforeSightingId: sightingIds[intro.beforeIndex]!, ord,
+      targetTypeId: intro.targetTypeId, aspect: picture.aspect, pictureId: picture.id,
+      lookAlikeTypeId: look ? intro.lookAlikeTypeId : null, lookAlikePictureId: look?.id ?? null,
+    })
+  })
+}
+
+interface WatchPictureRow { id: string, typeId: string, aspect: string, name: string, features: string }
+
+function watchPictures(sqlite: Database, watchId: string) {
+  const rows = stmt(sqlite, 'watchPictures').all(watchId) as WatchPictureRow[]
+  const byId = new Map<string, TeachingPicture & { typeId: string }>()
+  const byKey = new Map<string, TeachingPicture & { typeId: string }>()
+  for (const r of rows) {
+    const p = { typeId: r.typeId, name: r.name, aspect: r.aspect, features: parseFeatures(r.features), imageUrl: pictureUrl(r.id) }
+    byId.set(r.id, p)
+    byKey.set(`${r.typeId}|${r.aspect}`, p)
+  }
+  return { byId, byKey }
+}
+
+// The introductions still to come: those before a sighting not yet called or voided.
+function introductionsOf(sqlite: Database, watchId: string): Introduction[] {
+  const rows = stmt(sqlite, 'watchIntroductions').all(watchId) as { id: string, beforeSightingId: string, pictureId: string, lookAlikePictureId: string | null }[]
+  if (!rows.length) return []
+  const { byId } = watchPictures(sqlite, watchId)
+  const strip = (p: TeachingPicture & { typeId: string }): TeachingPicture => ({ name: p.name, aspect: p.aspect, features: p.features, imageUrl: p.imageUrl })
+  return rows.flatMap((r) => {
+    const p = byId.get(r.pictureId)
+    if (!p) return []
+    const look = r.lookAlikePictureId ? byId.get(r.lookAlikePictureId) : undefined
+    return [{ id: r.id, beforeSightingId: r.beforeSightingId, ...strip(p), lookAlike: look ? strip(look) : null }]
+  })
+}
+
+/** The file behind a watch picture, for the trainee it was issued to only (else null: answered as unknown). */
+export function pictureFileFor(sqlite: Database, userId: string, pictureId: string): string | null {
+  return (stmt(sqlite, 'pictureFile').get(pictureId, userId) as { file: string } | undefined)?.file ?? null
+}
+
+// The picture of a type at an aspect in a watch, as a reveal shows it.
+function revealPicture(sqlite: Database, watchId: string, typeId: string, aspect: string): string | null {
+  const row = stmt(sqlite, 'revealPicture').get(watchId, typeId, aspect) as { id: string } | undefined
+  return row ? pictureUrl(row.id) : null
 }
 
 function closeWatch(sqlite: Database, watchId: string, nowMs: number) {
@@ -335,30 +432,48 @@ function pickDeck(sqlite: Database, userId: string, deckId: string | undefined, 
  * Today's watch for a trainee: the open one of today again, or a new one planned by planWatch and
  * stored at once (every sighting with its id, the answer kept server-side). Nothing to drill: id null.
  */
-export function issueWatch(sqlite: Database, userId: string, deckId: string | undefined, nowMs = Date.now(), random: DrillRandom = serverRandom): IssuedWatch {
+export function issueWatch(sqlite: Database, userId: string, deckId: string | undefined, nowMs = Date.now(), random: DrillRandom = serverRandom, opts: { practice?: boolean } = {}): IssuedWatch {
   return sqlite.transaction(() => {
     const content = pickDeck(sqlite, userId, deckId, nowMs)
     const day = watchDay(nowMs)
     const open = openWatchToday(sqlite, userId, content.deck.id, nowMs)
     if (open) return storedWatch(sqlite, open, content, day)
     const tracks = ensureTracks(sqlite, userId, content, nowMs)
-    const planned = planWatch({
-      content,
-      tracks,
-      nowMs,
-      newIntroducedToday: newIntroducedToday(sqlite, userId, content.deck.id, nowMs),
-      confusions: confusionsFor(sqlite, userId, content.deck.id),
-      ...random,
-    })
-    if (!planned.length) {
+    const confusions = confusionsFor(sqlite, userId, content.deck.id)
+    const input = { content, tracks, nowMs, newIntroducedToday: newIntroducedToday(sqlite, userId, content.deck.id, nowMs), confusions, ...random }
+    let plan = planWatchItems(input)
+    let practice = false
+    if (opts.practice) {
+      // Practice is what the watch offers when nothing is due: sightings that are due go first.
+      if (plan.sightings.length) {
+        throw createError({ statusCode: 409, message: 'Sightings are due on this deck: start the watch instead of a practice.' })
+      }
+      if (!canPractise(tracks)) {
+        throw createError({ statusCode: 409, message: 'Nothing to practise yet: a practice repeats types you have called before.' })
+      }
+      plan = planWatchItems({ ...input, practice: true })
+      practice = true
+    }
+    if (!plan.sightings.length) {
       const next = tracks.filter(t => t.state.reps > 0).reduce<number | null>((m, t) => (m === null || t.state.due < m ? t.state.due : m), null)
-      return { id: null, deckId: content.deck.id, deckTitle: content.deck.title, day, hesitationMs: content.deck.hesitationMs, sightings: [], nextDueAt: next }
+      return {
+        id: null, deckId: content.deck.id, deckTitle: content.deck.title, day, hesitationMs: content.deck.hesitationMs, sightings: [], nextDueAt: next,
+        introductions: [], practice: false, practiceSize: practiceSizeOf(tracks, content),
+      }
     }
     const watchId = newId()
     stmt(sqlite, 'insertWatch').run(watchId, userId, content.deck.id, day, nowMs, nowMs)
-    planned.forEach((p, i) => insertPlanned(sqlite, watchId, userId, p, i, nowMs, null))
+    if (practice) sqlite.prepare('UPDATE watches SET practice = 1 WHERE id = ?').run(watchId)
+    const ids = plan.sightings.map((p, i) => insertPlanned(sqlite, watchId, userId, p, i, nowMs, null))
+    storeTeaching(sqlite, watchId, userId, content, ids, plan.sightings, plan.introductions)
     return storedWatch(sqlite, watchId, content, day)
   }).immediate()
+}
+
+// How many sightings a practice would hold: the tracks called before (with a rendered view), at most PRACTICE_SIZE.
+function practiceSizeOf(tracks: readonly PlanTrack[], content: DeckContent) {
+  const drillable = new Set(drillableKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
+  return Math.min(PRACTICE_SIZE, tracks.filter(t => t.state.reps > 0 && drillable.has(`${t.targetTypeId}|${t.aspect}`)).length)
 }
 
 function workloadOf(sqlite: Database, userId: string, content: DeckContent, nowMs: number): DeckWorkload {
@@ -366,10 +481,16 @@ function workloadOf(sqlite: Database, userId: string, content: DeckContent, nowM
   const tracks = new Map(readTracks(sqlite, userId, content.deck.id).map(t => [`${t.targetTypeId}|${t.aspect}`, t]))
   let due = 0
   let fresh = 0
+  let called = 0
+  let nextDueAt: number | null = null
   for (const k of keys) {
     const t = tracks.get(`${k.targetTypeId}|${k.aspect}`)
     if (!t || t.state.reps === 0) fresh++
-    else if (t.state.due <= nowMs) due++
+    else {
+      called++
+      if (t.state.due <= nowMs) due++
+      if (nextDueAt === null || t.state.due < nextDueAt) nextDueAt = t.state.due
+    }
   }
   const newAllowed = Math.max(0, content.deck.newPerDay - newIntroducedToday(sqlite, userId, content.deck.id, nowMs))
   due = Math.min(due, WATCH_MAX_SIGHTINGS)
@@ -386,7 +507,7 @@ function workloadOf(sqlite: Database, userId: string, content: DeckContent, nowM
       break
     }
   }
-  return { deckId: content.deck.id, title: content.deck.title, due, new: fresh, openWatchId, openLeft }
+  return { deckId: content.deck.id, title: content.deck.title, due, new: fresh, openWatchId, openLeft, nextDueAt, practice: Math.min(PRACTICE_SIZE, called) }
 }
 
 /** What each assigned deck holds for today, read only (no track or watch is created). */
@@ -500,10 +621,21 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       correct,
       anticipation,
       calledChoiceId: choiceId,
-      answer: { id: type.id, choiceId: choices.length ? s.answerChoiceId : null, name: type.name, features: parseFeatures(type.features) },
+      answer: {
+        id: type.id, choiceId: choices.length ? s.answerChoiceId : null, name: type.name, features: parseFeatures(type.features),
+        imageUrl: revealPicture(sqlite, s.watchId, type.id, s.aspect),
+      },
       latencyMs,
       calledAt,
       track: trackOut,
+      called: null,
+    }
+    // A wrong name: the type called, beside the right one in the reveal.
+    if (!correct && calledTypeId && calledTypeId !== type.id) {
+      const other = stmt(sqlite, 'answerType').get(calledTypeId) as { id: string, name: string, features: string } | undefined
+      if (other) {
+        result.called = { name: other.name, aspect: s.aspect, features: parseFeatures(other.features), imageUrl: revealPicture(sqlite, s.watchId, other.id, s.aspect) }
+      }
     }
     let reshow: { plan: PlannedSighting, id: string } | null = null
     if (grade === 'missed' && trackRow && after && s.kind === 'watch') {
@@ -599,17 +731,22 @@ export function watchPack(sqlite: Database, userId: string, watchId: string): Wa
   const types = new Map(names.map(n => [n.id, n]))
   const features = new Map<string, Record<string, string>>()
   const rows = stmt(sqlite, 'watchSightings').all(watchId) as StoredSightingRow[]
+  const aspects = new Map((sqlite.prepare('SELECT id, aspect FROM sightings WHERE watch_id = ?').all(watchId) as { id: string, aspect: string }[]).map(r => [r.id, r.aspect]))
+  const { byKey } = watchPictures(sqlite, watchId)
+  const pictureAt = (typeId: string, aspect: string) => byKey.get(`${typeId}|${aspect}`) ?? [...byKey.values()].find(p => p.typeId === typeId)
   return {
     id: w.id,
     deckId: w.deckId,
     day: w.day,
     hesitationMs: w.hesitationMs,
     names: names.map(n => ({ id: n.id, name: n.name })),
+    introductions: introductionsOf(sqlite, watchId),
     sightings: rows.map((r) => {
       if (!features.has(r.targetTypeId)) {
         const t = stmt(sqlite, 'answerType').get(r.targetTypeId) as { features: string } | undefined
         features.set(r.targetTypeId, parseFeatures(t?.features ?? null))
       }
+      const aspect = aspects.get(r.id) ?? ''
       return {
         ...issuedFromRow(r, w.answerMode),
         hesitationMs: w.hesitationMs,
@@ -618,7 +755,12 @@ export function watchPack(sqlite: Database, userId: string, watchId: string): Wa
           choiceId: w.answerMode === 'typed' ? null : r.answerChoiceId,
           name: types.get(r.targetTypeId)?.name ?? '',
           features: features.get(r.targetTypeId)!,
+          imageUrl: pictureAt(r.targetTypeId, aspect)?.imageUrl ?? null,
         },
+        choiceTypes: (JSON.parse(r.choices) as PlannedChoice[]).map((c) => {
+          const p = pictureAt(c.typeId, aspect)
+          return { choiceId: c.id, name: c.label, aspect, features: p?.features ?? {}, imageUrl: p?.imageUrl ?? null }
+        }),
       }
     }),
   }

@@ -8,7 +8,8 @@ export const FRAME_INTERVAL_MAX_MS = 100
 export const FRAMES_SHOWN_MAX = 1000
 export const TYPED_MAX = 80
 
-export const WatchBody = z.object({ deckId: Id.optional() }).strict()
+// practice: a short practice watch, asked for when nothing is due (product.md)
+export const WatchBody = z.object({ deckId: Id.optional(), practice: z.boolean('Send practice as true or false.').optional() }).strict()
 
 // `<sighting id>.webp`, the name of a sighting's picture under /images/s/ (same characters as Id).
 export const SightingImageParam = z.object({
@@ -38,6 +39,11 @@ export const BaselineBody = z.object({
   choiceMs: z.number('Give the choice reaction time in milliseconds.').min(100, 'A choice reaction time under 100 ms is an anticipation.').max(4000, 'A choice reaction time above 4 s is not a measurement.'),
   trials: z.number().int().min(4, 'Measure at least 4 trials.').max(200),
 }).strict()
+
+// A watch picture's address: its opaque id (nanoid, 21 characters) and .webp.
+export const PictureFileParam = z.object({
+  file: z.string().regex(/^[\w-]{21}\.webp$/, 'Not a picture name.'),
+})
 
 export type CallInput = z.infer<typeof CallBody>
 export type BaselineInput = z.infer<typeof BaselineBody>

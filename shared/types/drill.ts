@@ -26,6 +26,23 @@ export interface IssuedSighting {
   reshow: boolean
 }
 
+// A picture of a type shown to teach it (introduction, reveal), at an opaque per-watch address.
+export interface TeachingPicture {
+  name: string
+  aspect: string
+  features: Record<string, string>
+  // /images/p/<id>.webp, served only to the trainee the watch was issued to; null without a rendering
+  imageUrl: string | null
+}
+
+// A track's first appearance: named, unmasked, in good light, beside its nearest look-alike. Not a call.
+export interface Introduction extends TeachingPicture {
+  id: string
+  // shown just before this sighting (several before one sighting in list order)
+  beforeSightingId: string
+  lookAlike: TeachingPicture | null
+}
+
 export interface IssuedWatch {
   // null when there is nothing to drill now (nothing is stored then)
   id: string | null
@@ -37,6 +54,12 @@ export interface IssuedWatch {
   sightings: IssuedSighting[]
   // epoch ms of the next due track when the watch is empty
   nextDueAt: number | null
+  // introductions still to show, in order (issue 15); absent in older answers
+  introductions?: Introduction[]
+  // a practice watch (asked for with nothing due): its calls count like any other
+  practice?: boolean
+  // with nothing due (id null): how many sightings a practice would hold now
+  practiceSize?: number
 }
 
 export interface CallAnswer {
@@ -45,6 +68,8 @@ export interface CallAnswer {
   choiceId: string | null
   name: string
   features: Record<string, string>
+  // the answer's picture in good light at the sighting's aspect, for the reveal (after the call only)
+  imageUrl?: string | null
 }
 
 export interface CallResult {
@@ -58,11 +83,15 @@ export interface CallResult {
   calledAt: number
   track: { stage: TrackStage, due: number }
   appended?: IssuedSighting[]
+  // a wrong name: the type that was called, its picture at the same aspect; null for a right call or no call
+  called?: TeachingPicture | null
 }
 
 export interface PackSighting extends IssuedSighting {
   answer: CallAnswer
   hesitationMs: number
+  // each choice's type with its picture at this aspect, for the reveal of a wrong call with no connection
+  choiceTypes?: (TeachingPicture & { choiceId: string })[]
 }
 
 export interface WatchPack {
@@ -73,6 +102,7 @@ export interface WatchPack {
   // every name of the deck, for typed answers matched on the phone
   names: { id: string, name: string }[]
   sightings: PackSighting[]
+  introductions?: Introduction[]
 }
 
 export interface DeckWorkload {
@@ -82,6 +112,10 @@ export interface DeckWorkload {
   new: number
   openWatchId: string | null
   openLeft: number
+  // the next time a track of the deck falls due (epoch ms), null when none was called
+  nextDueAt?: number | null
+  // how many sightings a practice would hold (tracks called before, at most PRACTICE_SIZE)
+  practice?: number
 }
 
 export interface WatchToday { day: string, decks: DeckWorkload[] }

@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { Client, crewIdOf, freshPerson } from '../support/client'
-import { launch, PHONE, signIn } from '../support/browser'
+import { launch, passIntroductions, PHONE, signIn } from '../support/browser'
 import { readDb, writeDb } from '../support/drill-fixture'
 import type { WatchPack } from '../../shared/types/drill'
 
@@ -27,6 +27,7 @@ async function trainee() {
 
 async function startWatch(page: Page, userId: string) {
   await page.getByRole('button', { name: /Start watch|Go on with the watch/ }).click()
+  await passIntroductions(page)
   await page.getByTestId('sighting-box').waitFor()
   const watchId = readDb(db => (db.prepare('SELECT id FROM watches WHERE user_id = ? ORDER BY created_at DESC').get(userId) as { id: string }).id)
   const pack = (await (await page.request.get(`/api/watches/${watchId}/pack`)).json()) as WatchPack
@@ -35,6 +36,7 @@ async function startWatch(page: Page, userId: string) {
 
 // Taps the right choice of the sighting on screen; returns its id and the time of the tap.
 async function answer(page: Page, pack: WatchPack) {
+  await passIntroductions(page)
   const box = page.getByTestId('sighting-box')
   await expect.poll(() => box.getAttribute('data-state'), { timeout: 10_000 }).toMatch(/shown|masked/)
   const id = (await box.getAttribute('data-sighting-id'))!
@@ -47,11 +49,14 @@ async function answer(page: Page, pack: WatchPack) {
   return { id, at }
 }
 
-// The feedback also goes away by itself after a moment, so a tap on it may find it gone.
+// The reveal stays until tapped; a tap in its first 400 ms is taken for the end of the call's own tap
+// and ignored, so the tap is repeated until it has gone.
 async function goOn(page: Page) {
   const feedback = page.getByTestId('feedback')
-  if (await feedback.count()) await feedback.click({ timeout: 2000 }).catch(() => {})
-  await feedback.waitFor({ state: 'detached' })
+  await expect.poll(async () => {
+    if (await feedback.count()) await feedback.click({ timeout: 2000 }).catch(() => {})
+    return feedback.count()
+  }, { timeout: 10_000 }).toBe(0)
 }
 
 const syncText = (page: Page) => page.getByTestId('sync-status').textContent()
@@ -85,6 +90,7 @@ describe('the watch offline at 390x844', () => {
 
     // Reloaded with no connection: the stored watch, and still four waiting.
     await page.reload()
+    await passIntroductions(page)
     await page.getByTestId('sighting-box').waitFor()
     expect(await syncText(page)).toContain('4 calls waiting to sync')
     const onScreen = await page.getByTestId('sighting-box').getAttribute('data-sighting-id')

@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { crewIdOf, freshPerson } from '../support/client'
-import { launch, PHONE, shot, signIn } from '../support/browser'
+import { launch, passIntroductions, PHONE, shot, signIn } from '../support/browser'
 
 let browser: Browser
 beforeAll(async () => {
@@ -60,6 +60,7 @@ describe('sign-out on a phone', () => {
     await page.reload()
     await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller)).toBe(true)
     await page.getByRole('button', { name: /Start watch|Go on with the watch/ }).click()
+    await passIntroductions(page)
     await page.getByTestId('sighting-box').waitFor()
     await page.goto('/people/me')
     await page.getByRole('heading').first().waitFor()

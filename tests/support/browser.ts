@@ -35,3 +35,18 @@ export async function shot(page: Page, name: string) {
   mkdirSync('screenshots', { recursive: true })
   await page.screenshot({ path: `screenshots/${name}.png`, fullPage: true })
 }
+
+/**
+ * Reads past the introductions on screen (issue 15: a new track is introduced before its first
+ * timed sighting) until a sighting or the summary shows.
+ */
+export async function passIntroductions(page: Page) {
+  for (let i = 0; i < 40; i++) {
+    await page.locator('[data-testid="introduction"], [data-testid="sighting-box"], [data-testid="watch-summary"]').first().waitFor({ timeout: 15_000 })
+    const intro = page.getByTestId('introduction')
+    if (!(await intro.count())) return
+    const id = await intro.getAttribute('data-intro-id')
+    await page.getByRole('button', { name: 'Ready: go on' }).click()
+    await page.locator(`[data-intro-id="${id}"]`).waitFor({ state: 'detached' })
+  }
+}

@@ -1,11 +1,12 @@
 import { WatchBody } from '#shared/schemas/drill'
 
-// Today's watch: the open one again, or a new one issued at once (see server/utils/watch.ts).
+// Today's watch: the open one again, or a new one issued at once; with practice, a short practice
+// when nothing is due (see server/utils/watch.ts).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'trainee')
   const body = await readBody(event).catch(() => {
     throw createError({ statusCode: 400, message: 'The request body must be JSON.' })
   })
-  const { deckId } = validator(WatchBody)(body ?? {})
-  return issueWatch(useSqlite(), actor.id, deckId)
+  const { deckId, practice } = validator(WatchBody)(body ?? {})
+  return issueWatch(useSqlite(), actor.id, deckId, Date.now(), undefined, { practice })
 })

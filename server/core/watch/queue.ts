@@ -144,3 +144,82 @@ export function insertReshow(
   out.splice(at, 0, missedTrackId)
   return out
 }
+
+/** At least this many other appearances come between a track's introduction and its first timed sighting. */
+export const INTRO_GAP = 2
+
+export type WatchItem = { kind: 'introduction' | 'sighting', trackId: string }
+
+/**
+ * Puts an introduction before the first timed sighting of each new track: as late as leaves
+ * INTRO_GAP other sightings between them, or, near the start of the watch where fewer sightings
+ * come before, at the start with the other introductions in between (so INTRO_GAP other
+ * appearances still separate them whenever the watch holds INTRO_GAP + 1 tracks). Introductions
+ * that share a place keep the order of their sightings. Only the first sighting of a track is
+ * introduced; a track not in the queue is not introduced.
+ */
+export function placeIntroductions(queue: readonly string[], newTrackIds: ReadonlySet<string>, gap = INTRO_GAP): WatchItem[] {
+  if (!Number.isInteger(gap) || gap < 0) throw new RangeError(`gap must be a whole number >= 0, got ${gap}`)
+  const before = new Map<number, string[]>()
+  const introduced = new Set<string>()
+  queue.forEach((trackId, k) => {
+    if (!newTrackIds.has(trackId) || introduced.has(trackId)) return
+    introduced.add(trackId)
+    const at = Math.max(0, k - gap)
+    if (!before.has(at)) before.set(at, [])
+    before.get(at)!.push(trackId)
+  })
+  const out: WatchItem[] = []
+  queue.forEach((trackId, k) => {
+    for (const t of before.get(k) ?? []) out.push({ kind: 'introduction', trackId: t })
+    out.push({ kind: 'sighting', trackId })
+  })
+  return out
+}
+
+export interface PracticeInput {
+  tracks: readonly QueueTrack[]
+  nowMs: number
+  // target type ids of the crew's worst confusions, worst first (either side of a confused pair)
+  confusedTypeIds: readonly string[]
+  size: number
+}
+
+/** Sightings in a practice watch when the deck sets none (product.md: a short practice). */
+export const PRACTICE_SIZE = 10
+
+/**
+ * A practice queue when nothing is due: tracks called before, taken in turn from two lists, the
+ * lowest retrievability first and the tracks of the crew's worst-confused types, each track once,
+ * up to `size`, then spread so no type comes twice in a row. New tracks are not practised (they
+ * come through introductions on their day).
+ */
+export function buildPracticeQueue(input: PracticeInput): string[] {
+  const { tracks, nowMs, confusedTypeIds, size } = input
+  if (!Number.isFinite(nowMs)) throw new RangeError(`nowMs must be finite, got ${nowMs}`)
+  if (!Number.isInteger(size) || size < 0) throw new RangeError(`size must be a whole number >= 0, got ${size}`)
+  const known = tracks.filter(t => t.state.state !== State.New && t.state.reps > 0)
+  const byR = known.map(t => ({ t, r: retrievability(t.state, nowMs) }))
+    .sort((a, b) => a.r - b.r || (a.t.id < b.t.id ? -1 : a.t.id > b.t.id ? 1 : 0)).map(x => x.t)
+  const rank = new Map(confusedTypeIds.map((id, i) => [id, i]))
+  const byConfusion = byR.filter(t => rank.has(t.targetTypeId))
+    .sort((a, b) => rank.get(a.targetTypeId)! - rank.get(b.targetTypeId)!)
+  const lists = [byR, byConfusion]
+  const at = [0, 0]
+  const picked: QueueTrack[] = []
+  const taken = new Set<string>()
+  while (picked.length < size) {
+    let next: QueueTrack | undefined
+    // The two lists take turns; when one runs out the other goes on.
+    for (let tries = 0; tries < 2 && !next; tries++) {
+      const l = (picked.length + tries) % 2
+      const list = lists[l]!
+      while (at[l]! < list.length && taken.has(list[at[l]!]!.id)) at[l]!++
+      next = list[at[l]!]
+    }
+    if (!next) break
+    taken.add(next.id)
+    picked.push(next)
+  }
+  return spreadByType(picked, t => t.targetTypeId).map(t => t.id)
+}

@@ -31,7 +31,8 @@ export const MAX_PX = 320
 // Closer than this a lookout names the target without raising binoculars (common practice, no source).
 export const NEAR_RANGE_M = 1000
 
-// Lookout eye height on a bridge wing, about 15 m (assumption): vessels are never farther than its horizon.
+// Lookout eye height on a bridge wing, about 15 m (assumption): a vessel is placed no farther than
+// this eye's horizon (8.2 nm, Bowditch), so its whole hull stays above the horizon.
 export const LOOKOUT_EYE_HEIGHT_M = 15
 
 // Farthest an aircraft sighting is placed (product limit).
@@ -77,19 +78,25 @@ function pickCondition(view: PlanView, maxDifficulty: number, rng: Rng): Conditi
   return known.reduce((a, b) => (conditionDifficulty(b) < conditionDifficulty(a) ? b : a))
 }
 
-/** The range placement for a wanted apparent size: binoculars unless the target would be near. */
+/**
+ * The range placement for a wanted apparent size. Binoculars unless the target would be near,
+ * or unless they would put it beyond the farthest range (a vessel's hull below the lookout's
+ * horizon, an aircraft past MAX_AIR_RANGE_M): then the naked eye, which needs a range 7x shorter
+ * for the same size. Only then is the range cut at the farthest, which can make a very large
+ * target larger than wanted (300 m at 15.2 km by eye: 53 px).
+ */
 export function placeRange(sizeM: number, category: string, wantPx: number): { rangeM: number, binoculars: boolean, apparentPx: number } {
   const px = Math.min(MAX_PX, Math.max(MIN_PX, wantPx))
+  const farthest = category === 'vessel' ? horizonDistanceM(LOOKOUT_EYE_HEIGHT_M) : MAX_AIR_RANGE_M
   let binoculars = true
   let rangeM = rangeForPx(sizeM, px, BINOCULAR_MAGNIFICATION)
-  if (rangeM < NEAR_RANGE_M) {
+  if (rangeM < NEAR_RANGE_M || rangeM > farthest) {
     binoculars = false
     rangeM = rangeForPx(sizeM, px, 1)
   }
-  const farthest = category === 'vessel' ? horizonDistanceM(LOOKOUT_EYE_HEIGHT_M) : MAX_AIR_RANGE_M
   rangeM = Math.min(rangeM, farthest)
   const magnification = binoculars ? BINOCULAR_MAGNIFICATION : 1
-  // A range cut at the horizon makes the target larger; the phone still shows at most MAX_PX.
+  // A range cut at the farthest makes the target larger; the phone still shows at most MAX_PX.
   let shown = apparentPx(sizeM, rangeM, magnification)
   if (shown > MAX_PX) {
     rangeM = rangeForPx(sizeM, MAX_PX, magnification)

@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest'
 import { State } from 'ts-fsrs'
 import { newTrackState, schedulerFor, toCard } from '../../../server/core/scheduling/fsrs'
 import type { TrackState } from '../../../server/core/scheduling/fsrs'
-import { buildWatchQueue, insertReshow, spreadByType } from '../../../server/core/watch/queue'
-import type { QueueTrack } from '../../../server/core/watch/queue'
+import { buildPracticeQueue, buildWatchQueue, INTRO_GAP, insertReshow, placeIntroductions, spreadByType } from '../../../server/core/watch/queue'
+import type { QueueTrack, WatchItem } from '../../../server/core/watch/queue'
 import { mulberry32, randomIndex } from '../../../server/core/watch/rng'
 
 const DAY = 86_400_000
@@ -126,5 +126,86 @@ describe('insertReshow (product.md: a missed track comes back after at least thr
     expect(at - 1 - 1).toBeGreaterThanOrEqual(3)
     expect(type[out[at - 1]!]).not.toBe('B')
     expect(type[out[at + 1]!]).not.toBe('B')
+  })
+})
+
+describe('placeIntroductions (product.md, The drill 2: each new one introduced before its first timed sighting; issue 15 item 1)', () => {
+  // Counts the appearances (introductions or sightings) and the timed sightings strictly between a
+  // track's introduction and its first timed sighting.
+  function between(items: WatchItem[], trackId: string) {
+    const intro = items.findIndex(x => x.kind === 'introduction' && x.trackId === trackId)
+    const first = items.findIndex(x => x.kind === 'sighting' && x.trackId === trackId)
+    const inside = items.slice(intro + 1, first)
+    return { intro, first, others: inside.length, sightings: inside.filter(x => x.kind === 'sighting').length }
+  }
+
+  it('with due sightings first, every new track has at least two timed sightings between its introduction and its first timed sighting', () => {
+    const queue = ['d1', 'n1', 'd2', 'n2', 'd3', 'n3', 'd4']
+    const items = placeIntroductions(queue, new Set(['n1', 'n2', 'n3']))
+    expect(items.filter(x => x.kind === 'sighting').map(x => x.trackId)).toEqual(queue)
+    for (const n of ['n1', 'n2', 'n3']) {
+      const b = between(items, n)
+      expect(b.intro, n).toBeGreaterThanOrEqual(0)
+      expect(b.intro).toBeLessThan(b.first)
+      // n1 is the second sighting: only one sighting comes before it, so the introductions of n2 and n3 stand between.
+      if (n === 'n1') expect(b.others).toBeGreaterThanOrEqual(INTRO_GAP)
+      else expect(b.sightings).toBeGreaterThanOrEqual(INTRO_GAP)
+    }
+    // Due tracks are not introduced.
+    expect(items.filter(x => x.kind === 'introduction')).toHaveLength(3)
+  })
+
+  it('a watch of new tracks only: introductions lead, two other appearances before each first sighting', () => {
+    const queue = Array.from({ length: 10 }, (_, i) => `n${i}`)
+    const items = placeIntroductions(queue, new Set(queue))
+    expect(items.slice(0, 3).every(x => x.kind === 'introduction')).toBe(true)
+    for (const n of queue) {
+      const b = between(items, n)
+      expect(b.others, n).toBeGreaterThanOrEqual(INTRO_GAP)
+      // From the third track on, the gap is made of timed sightings.
+      if (queue.indexOf(n) >= INTRO_GAP) expect(b.sightings, n).toBeGreaterThanOrEqual(INTRO_GAP)
+    }
+  })
+
+  it('introduces a track once, before its first sighting only (a re-show is not introduced again)', () => {
+    const items = placeIntroductions(['d1', 'd2', 'n1', 'd3', 'n1'], new Set(['n1']))
+    expect(items.map(x => `${x.kind[0]}:${x.trackId}`)).toEqual(['i:n1', 's:d1', 's:d2', 's:n1', 's:d3', 's:n1'])
+  })
+
+  it('refuses a negative gap', () => {
+    expect(() => placeIntroductions(['a'], new Set(), -1)).toThrow(RangeError)
+  })
+})
+
+describe('buildPracticeQueue (product.md, practice: lowest retrievability and the crew\'s worst confusions; issue 15 item 3)', () => {
+  const f = schedulerFor({ retention: 0.9 })
+  const rOf = (t: QueueTrack) => f.get_retrievability(toCard(t.state), new Date(NOW), false)
+
+  it('takes in turn the track ts-fsrs rates least retrievable and the worst-confused type, never new tracks, no type twice in a row', () => {
+    const tracks = [
+      track('a', 'T1', reviewedState(30, 2, 20)),
+      track('b', 'T2', reviewedState(2, 1, 1)),
+      track('c', 'T3', reviewedState(10, 5, 3)),
+      track('d', 'T4', reviewedState(50, 1, 40)),
+      track('e', 'T5', reviewedState(40, 1, 30)),
+      track('n', 'T6', newTrackState(NOW)),
+    ]
+    const queue = buildPracticeQueue({ tracks, nowMs: NOW, confusedTypeIds: ['T4', 'T5'], size: 4 })
+    expect(queue).toHaveLength(4)
+    expect(queue).not.toContain('n')
+    // The least retrievable of all by the library's own formula, and the two confused types.
+    const lowest = tracks.slice(0, 5).sort((x, y) => rOf(x) - rOf(y)).map(t => t.id)
+    expect(queue).toContain(lowest[0])
+    expect(queue).toContain(lowest[1])
+    expect(queue).toContain('d')
+    expect(queue).toContain('e')
+    expect(noRepeats(queue.map(id => tracks.find(t => t.id === id)!.targetTypeId))).toBe(true)
+  })
+
+  it('is as long as the tracks allow, and empty with nothing called before', () => {
+    const known = [track('a', 'T1', reviewedState(3, 1, 2)), track('b', 'T2', reviewedState(3, 1, 2))]
+    expect(buildPracticeQueue({ tracks: known, nowMs: NOW, confusedTypeIds: [], size: 10 }).sort()).toEqual(['a', 'b'])
+    expect(buildPracticeQueue({ tracks: [track('n', 'T1', newTrackState(NOW))], nowMs: NOW, confusedTypeIds: [], size: 10 })).toEqual([])
+    expect(() => buildPracticeQueue({ tracks: known, nowMs: NOW, confusedTypeIds: [], size: -1 })).toThrow(RangeError)
   })
 })

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { planSighting } from '../../../server/core/watch/sighting-plan'
+import { LOOKOUT_EYE_HEIGHT_M, placeRange, planSighting, PX_BY_RUNG } from '../../../server/core/watch/sighting-plan'
+import { horizonDistanceM } from '../../../shared/utils/apparent-size'
 import type { PlanInput } from '../../../server/core/watch/sighting-plan'
 import { mulberry32 } from '../../../server/core/watch/rng'
 
@@ -73,5 +74,45 @@ describe('planSighting', () => {
     const p = planSighting({ ...input, views: hardOnly, track: { reps: 0, stability: 0 }, rng: mulberry32(3) })
     expect(p).toMatchObject({ viewId: 'h', condition: 'haze' })
     expect(() => planSighting({ ...input, views: [], rng: mulberry32(3) })).toThrow(RangeError)
+  })
+})
+
+// Issue 15, item 5: large targets get small. The stage bands are the product's (PX_BY_RUNG), the
+// checks are plane geometry θ = 2·atan(s/2d), the CSS reference pixel 0.0213° (W3C CSS Values 3)
+// and Bowditch's distance to the horizon d(nmi) = 1.17·√h(ft) (The American Practical Navigator,
+// table of distance to the horizon), all written out here.
+describe('placeRange: every stage band for every size from 10 to 300 m', () => {
+  const lookoutHorizonM = 1.17 * Math.sqrt(15 / 0.3048) * 1852
+
+  it('the lookout horizon of a 15 m (49.2 ft) eye is about 8.2 nm, 15.2 km (Bowditch)', () => {
+    expect(lookoutHorizonM / 1852).toBeCloseTo(8.21, 2)
+    expect(horizonDistanceM(LOOKOUT_EYE_HEIGHT_M)).toBeCloseTo(lookoutHorizonM, 6)
+  })
+
+  for (const category of ['vessel', 'aircraft']) {
+    it(`${category}: the apparent size falls inside the band of each stage, by plane geometry`, () => {
+      const out: string[] = []
+      PX_BY_RUNG.forEach(([lo, hi], rung) => {
+        for (let size = 10; size <= 300; size++) {
+          for (const want of [lo, (lo + hi) / 2, hi]) {
+            const p = placeRange(size, category, want)
+            const px = pxAt(size, p.rangeM, p.binoculars ? 7 : 1)
+            if (Math.abs(px - p.apparentPx) > 1e-6) out.push(`${size} m rung ${rung}: ${px} vs ${p.apparentPx}`)
+            if (px < lo - 1e-9 || px > hi + 1e-9) out.push(`${size} m rung ${rung} want ${want}: ${px.toFixed(1)} px`)
+            if (category === 'vessel' && p.rangeM > lookoutHorizonM + 1e-6) out.push(`${size} m beyond the horizon: ${p.rangeM}`)
+            if (category === 'aircraft' && p.rangeM > 40_000 + 1e-6) out.push(`${size} m beyond 40 km: ${p.rangeM}`)
+          }
+        }
+      })
+      expect(out).toEqual([])
+    })
+  }
+
+  it('a 168 m vessel held for weeks shows in 40-80 px (was 208 px: the range cut at the horizon)', () => {
+    const p = placeRange(168, 'vessel', 60)
+    // By eye at 168 / tan(60 × 0.0213°) ≈ 7.5 km, inside the 15.2 km horizon.
+    expect(p.binoculars).toBe(false)
+    expect(p.rangeM).toBeCloseTo(168 / (2 * Math.tan((60 * 0.0213 / 2) * Math.PI / 180)), 3)
+    expect(p.apparentPx).toBeCloseTo(60, 6)
   })
 })

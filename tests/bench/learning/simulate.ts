@@ -1,9 +1,9 @@
 // The learning benchmark's simulation: the same simulated people, deck and daily budget of
 // sightings under each schedule. Glint's own schedule runs its real pure code (the watch
-// queue, re-shows, latency grades, FSRS through ts-fsrs); the learner (learner.ts) knows
-// nothing of it.
-import { buildWatchQueue, insertReshow } from '../../../server/core/watch/queue'
-import { newTrackState, retrievability, reviewTrack } from '../../../server/core/scheduling/fsrs'
+// queue with its introductions, re-shows, practice watches, latency grades, FSRS through
+// ts-fsrs); the learner (learner.ts) knows nothing of it.
+import { buildPracticeQueue, buildWatchQueue, insertReshow, placeIntroductions, PRACTICE_SIZE } from '../../../server/core/watch/queue'
+import { newTrackState, reviewTrack } from '../../../server/core/scheduling/fsrs'
 import type { TrackState } from '../../../server/core/scheduling/fsrs'
 import { readiness } from '../../../server/core/reports/readiness'
 import type { ReadinessStandard } from '../../../server/core/reports/readiness'
@@ -144,15 +144,24 @@ const INTRODUCTION_MS = 4000
 const MAX_RESHOWS = 2
 
 // Every schedule spends the same budget: what its own rule leaves free is filled, for the FSRS
-// schedules with practice (Glint's product rule: with nothing due, practice), for Leitner's boxes
-// with the lowest boxes first (the boxes' own priority), the rotation by going on round.
-// Practice when the due and new tracks leave room: tracks already called, lowest retrievability first
-function practiceQueue(tracks: { id: string, targetTypeId: string, aspect: string, state: TrackState }[], nowMs: number, room: number, taken: Set<string>): string[] {
-  return tracks.filter(t => t.state.reps > 0 && !taken.has(t.id))
-    .map(t => ({ t, r: retrievability(t.state, nowMs) }))
-    .sort((a, b) => a.r - b.r)
-    .slice(0, room)
-    .map(x => x.t.id)
+// schedules with practice watches as the server issues them when nothing is due (buildPracticeQueue:
+// lowest retrievability and the worst-confused types in turn, PRACTICE_SIZE a watch), for Leitner's
+// boxes with the lowest boxes first (the boxes' own priority), the rotation by going on round.
+// The server's watch holds at most 30 sightings (WATCH_MAX_SIGHTINGS in server/utils/drill-plan.ts).
+const WATCH_MAX_SIGHTINGS = 30
+
+/** Type ids of the person's confused pairs, the most frequent pair first, both sides (as the server ranks a crew's). */
+function worstConfusedTypes(calls: readonly CallRecord[]): string[] {
+  const pairs = new Map<string, { a: string, b: string, n: number }>()
+  for (const c of calls) {
+    if (!c.calledTypeId || c.calledTypeId === c.targetTypeId) continue
+    const key = `${c.targetTypeId}|${c.calledTypeId}`
+    const pair = pairs.get(key) ?? { a: c.targetTypeId, b: c.calledTypeId, n: 0 }
+    pair.n++
+    pairs.set(key, pair)
+  }
+  const sorted = [...pairs.values()].sort((x, y) => y.n - x.n || (x.a + x.b < y.a + y.b ? -1 : 1))
+  return [...new Set(sorted.flatMap(p => [p.a, p.b]))]
 }
 
 /** Runs one person under one schedule. */
@@ -180,10 +189,8 @@ export function runPerson(person: Person, policy: Policy, setup: RunSetup): Pers
     const sight = (index: number): boolean => {
       const item = items[index]!
       if (!introduced[index]) {
-        learner.see(index, clock / 1000)
-        introduced[index] = true
-        used++
-        clock += INTRODUCTION_MS
+        // Leitner's boxes and the rotation show a new item just before its first call
+        introduce(index)
         if (used >= budget) return false
       }
       // the exposure ladder decides how long the image shows; the learner has no term for it
@@ -211,47 +218,79 @@ export function runPerson(person: Person, policy: Policy, setup: RunSetup): Pers
       return false
     }
 
+    const introduce = (index: number) => {
+      learner.see(index, clock / 1000)
+      introduced[index] = true
+      used++
+      clock += INTRODUCTION_MS
+    }
+    // one watch: its sightings in order, a missed one re-shown (at most MAX_RESHOWS times, after at
+    // least RESHOW_GAP others: insertReshow); introductions before the sighting the server puts them before
+    const runQueue = (start: readonly string[], introBefore = new Map<number, number[]>()) => {
+      let queue = start.slice()
+      const reshows = new Map<string, number>()
+      for (let i = 0; i < queue.length && used < budget; i++) {
+        for (const t of introBefore.get(i) ?? []) {
+          if (!introduced[t] && used < budget) introduce(t)
+        }
+        if (used >= budget) break
+        const id = queue[i]!
+        const again = sight(Number(id))
+        if (again && (reshows.get(id) ?? 0) < MAX_RESHOWS) {
+          reshows.set(id, (reshows.get(id) ?? 0) + 1)
+          queue = insertReshow(queue, id, i, x => String(items[Number(x)]!.type))
+          // introductions keep their sighting: those after the re-show's place move one on
+          const placed = queue.indexOf(id, i + 1)
+          const shifted = new Map<number, number[]>()
+          for (const [pos, ts] of introBefore) shifted.set(pos >= placed ? pos + 1 : pos, ts)
+          introBefore = shifted
+        }
+      }
+    }
     if (policy === 'rotation') {
       while (used < budget) {
         sight(rotation % items.length)
         rotation++
       }
     }
-    else {
-      let queue: string[]
-      if (policy === 'leitner') {
-        const due = items.filter(it => box[it.index]! > 0 && day - boxDay[it.index]! >= LEITNER_DAYS[box[it.index]!]!)
-          .sort((x, y) => box[x.index]! - box[y.index]! || x.index - y.index)
-        const fresh = items.filter(it => box[it.index] === 0).slice(0, deck.newPerDay)
-        queue = [...due, ...fresh].map(it => String(it.index))
-      }
-      else {
-        queue = buildWatchQueue({
-          tracks: items.map(it => ({ id: String(it.index), targetTypeId: String(it.type), aspect: it.aspect, state: tracks[it.index]! })),
-          nowMs: clock,
-          retention: deck.retention,
-          newPerDay: deck.newPerDay,
-          newIntroducedToday: 0,
-          maxSightings: budget,
-        })
-      }
-      if (policy === 'leitner' && queue.length < budget) {
+    else if (policy === 'leitner') {
+      const due = items.filter(it => box[it.index]! > 0 && day - boxDay[it.index]! >= LEITNER_DAYS[box[it.index]!]!)
+        .sort((x, y) => box[x.index]! - box[y.index]! || x.index - y.index)
+      const fresh = items.filter(it => box[it.index] === 0).slice(0, deck.newPerDay)
+      let queue = [...due, ...fresh].map(it => String(it.index))
+      if (queue.length < budget) {
         const taken = new Set(queue)
         queue = [...queue, ...items.filter(it => box[it.index]! > 0 && !taken.has(String(it.index)))
           .sort((x, y) => box[x.index]! - box[y.index]! || boxDay[x.index]! - boxDay[y.index]! || x.index - y.index)
           .slice(0, budget - queue.length).map(it => String(it.index))]
       }
-      else if (policy !== 'leitner' && queue.length < budget) {
-        queue = [...queue, ...practiceQueue(items.map(it => ({ id: String(it.index), targetTypeId: String(it.type), aspect: it.aspect, state: tracks[it.index]! })), clock, budget - queue.length, new Set(queue))]
+      runQueue(queue)
+    }
+    else {
+      // the day's watch (due first, then new tracks, each introduced before its first sighting) ...
+      const queueTracks = () => items.map(it => ({ id: String(it.index), targetTypeId: String(it.type), aspect: it.aspect, state: tracks[it.index]! }))
+      const queue = buildWatchQueue({
+        tracks: queueTracks(),
+        nowMs: clock,
+        retention: deck.retention,
+        newPerDay: deck.newPerDay,
+        newIntroducedToday: 0,
+        maxSightings: Math.min(WATCH_MAX_SIGHTINGS, budget),
+      })
+      const plan = placeIntroductions(queue, new Set(queue.filter(id => !introduced[Number(id)])))
+      // introductions shown where the server places them: before the k-th sighting of the queue
+      const introBefore = new Map<number, number[]>()
+      let k = 0
+      for (const item of plan) {
+        if (item.kind === 'sighting') k++
+        else introBefore.set(k, [...(introBefore.get(k) ?? []), Number(item.trackId)])
       }
-      const reshows = new Map<string, number>()
-      for (let i = 0; i < queue.length && used < budget; i++) {
-        const id = queue[i]!
-        const again = sight(Number(id))
-        if (again && (reshows.get(id) ?? 0) < MAX_RESHOWS) {
-          reshows.set(id, (reshows.get(id) ?? 0) + 1)
-          queue = insertReshow(queue, id, i, x => String(items[Number(x)]!.type))
-        }
+      runQueue(queue, introBefore)
+      // ... then practice watches while the day's budget lasts (product.md: with nothing due, practice)
+      while (used < budget) {
+        const practice = buildPracticeQueue({ tracks: queueTracks(), nowMs: clock, confusedTypeIds: worstConfusedTypes(calls), size: Math.min(PRACTICE_SIZE, budget - used) })
+        if (!practice.length) break
+        runQueue(practice)
       }
     }
     sightings += used

@@ -1,6 +1,10 @@
 // Glint: Nuxt 4 app with server routes on SQLite (see DEVELOPERS.md for the map of the code).
 // GLINT_BUILD_TAG lets parallel builds (tests, benchmarks) use their own output folders.
+import { createRequire } from 'node:module'
+
 const tag = process.env.GLINT_BUILD_TAG
+// The optimizer's package as the fit's child process imports it (its ES module entry).
+const fitBinding = createRequire(import.meta.url).resolve('@open-spaced-repetition/binding').replace(/index\.cjs$/, 'index.mjs')
 
 export default defineNuxtConfig({
   modules: ['@nuxt/eslint', '@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@vite-pwa/nuxt'],
@@ -45,17 +49,22 @@ export default defineNuxtConfig({
     output: tag ? { dir: `.output-${tag}` } : undefined,
     experimental: { tasks: true },
     // Weekly digest to leads on Monday 06:00, daily reminders to trainees at 05:00 (server time).
-    scheduledTasks: { '0 6 * * 1': ['digests:weekly'], '0 5 * * *': ['digests:daily'] },
-    externals: { external: ['better-sqlite3'] },
+    // Crews' FSRS parameters refitted on Sunday 03:00.
+    scheduledTasks: { '0 6 * * 1': ['digests:weekly'], '0 5 * * *': ['digests:daily'], '0 3 * * 0': ['fsrs:fit-crews'] },
+    // The fit's child process (server/workers/fit-child.ts) loads the optimizer's native package
+    // from the server's node_modules; the server itself never imports it, so its entry file is traced here.
+    externals: { external: ['better-sqlite3'], traceInclude: [fitBinding] },
   },
   typescript: { strict: true },
   telemetry: false,
-  // Deck uploads (issue 3): bundle the render worker and its codecs' .wasm next to the built server.
+  // Deck uploads (issue 3): bundle the render worker and its codecs' .wasm next to the built server;
+  // crews' FSRS fits (issue 18): the fit's child process beside it.
   hooks: {
     'nitro:build:before': (nitro) => {
       nitro.hooks.hook('compiled', async () => {
-        const { buildRenderWorker } = await import('./server/workers/build-worker')
+        const { buildFitChild, buildRenderWorker } = await import('./server/workers/build-worker')
         await buildRenderWorker(nitro.options.output.serverDir)
+        await buildFitChild(nitro.options.output.serverDir)
       })
     },
   },

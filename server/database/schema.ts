@@ -397,3 +397,28 @@ export const scanPasses = sqliteTable('scan_passes', {
   contactsShown: integer('contacts_shown').notNull(),
   createdAt: integer('created_at').notNull().default(now),
 }, t => [index('scan_passes_user_idx').on(t.userId, t.createdAt)])
+
+// ---------------------------------------------------------------- fitted scheduling
+
+// Each crew's FSRS parameters fitted from its own calls (server/utils/fsrs-fit.ts): the last fit's
+// state and figures, and the set the scheduler uses (adopted_weights; NULL = the library's defaults).
+export const crewFsrsParams = sqliteTable('crew_fsrs_params', {
+  crewId: text('crew_id').primaryKey().references(() => crews.id, { onDelete: 'cascade' }),
+  status: text('status').notNull().default('idle'), // idle | running | done | too-few | failed
+  progress: real('progress').notNull().default(0),
+  message: text('message'),
+  calls: integer('calls').notNull().default(0),
+  tracks: integer('tracks').notNull().default(0),
+  // calls still needed before a fit is tried
+  needed: integer('needed').notNull().default(0),
+  defaultLogLoss: real('default_log_loss'),
+  defaultRmse: real('default_rmse'),
+  fittedLogLoss: real('fitted_log_loss'),
+  fittedRmse: real('fitted_rmse'),
+  fittedWeights: text('fitted_weights', { mode: 'json' }).$type<number[]>(),
+  adoptedWeights: text('adopted_weights', { mode: 'json' }).$type<number[]>(),
+  requestedBy: text('requested_by'),
+  startedAt: integer('started_at'),
+  finishedAt: integer('finished_at'),
+  ...timestamps,
+})

@@ -20,6 +20,7 @@ import { PRACTICE_SIZE } from '../core/watch/queue'
 import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from './drill-plan'
 import { newCallId, newId } from './ids'
 import { recordCheckCall } from './checks'
+import { weightsForCall } from './fsrs-fit'
 import type { CheckCallRecorded } from '../../shared/schemas/checks'
 
 const DAY_MS = 86_400_000
@@ -609,7 +610,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       const track = toPlanTrack(trackRow)
       // Calls synced out of order are applied no earlier than the track's last review.
       const reviewAt = Math.max(calledAt, track.state.lastReview ?? 0)
-      const review = reviewTrack(track.state, grade, reviewAt, { retention: s.retention ?? 0.9 })
+      const review = reviewTrack(track.state, grade, reviewAt, { retention: s.retention ?? 0.9, weights: weightsForCall(sqlite, userId, s.deckId!) })
       before = review.before
       after = review.after
       trackOut = { stage: stageOf(after, reviewAt, s.retention ?? 0.9), due: after.due }

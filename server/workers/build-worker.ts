@@ -1,5 +1,6 @@
-// Bundles the render worker with esbuild next to the built server, with the codecs' .wasm files,
-// because Nitro bundles only what the server imports and a worker thread needs a file of its own.
+// Bundles the render worker (with the codecs' .wasm files) and the fit's child process with esbuild
+// next to the built server, because Nitro bundles only what the server imports and a worker thread
+// or a child process needs a file of its own.
 import { copyFile, mkdir } from 'node:fs/promises'
 import { createRequire } from 'node:module'
 import { basename, dirname, join, resolve } from 'node:path'
@@ -31,4 +32,25 @@ export async function buildRenderWorker(serverDir: string) {
     await copyFile(join(packageDir, ...rest), join(out, 'wasm', basename(spec)))
   }
   return join(out, 'render-worker.mjs')
+}
+
+/**
+ * Writes <serverDir>/workers/fit-child.mjs. The optimizer's native package stays outside the
+ * bundle: Nitro's trace copies it to <serverDir>/node_modules (nuxt.config's traceInclude), where
+ * the child finds it.
+ */
+export async function buildFitChild(serverDir: string) {
+  const outfile = join(resolve(serverDir), 'workers', 'fit-child.mjs')
+  await build({
+    entryPoints: [join(here, 'fit-child.ts')],
+    outfile,
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    logLevel: 'warning',
+    external: ['@open-spaced-repetition/binding'],
+    banner: { js: 'import { createRequire as __glintRequire } from \'node:module\'; const require = __glintRequire(import.meta.url);' },
+  })
+  return outfile
 }

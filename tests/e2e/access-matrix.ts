@@ -93,6 +93,9 @@ export const MATRIX: Record<string, Entry> = {
   'GET /api/crews/:crew/stats': crewReport,
   'GET /api/crews/:crew/stats.csv': crewReport,
   'GET /api/crews/:crew/confusions': crewReport,
+  // The crew's fitted scheduling parameters: the same people as the crew reports; POST starts a fit.
+  'GET /api/crews/:crew/fsrs': crewReport,
+  'POST /api/crews/:crew/fsrs': crewReport,
   'GET /api/crews/:crew/scan': { anon: 401, trainee: 403, instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
   'GET /api/decks/:deck/confusions': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 'ok', other: { admin: 'ok' } },
   // Own crew's person: the trainee is that person; another crew's person is refused to all but the admin.

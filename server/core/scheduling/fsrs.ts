@@ -5,6 +5,7 @@
 import {
   createEmptyCard,
   default_maximum_interval,
+  default_w,
   forgetting_curve,
   fsrs,
   FSRSVersion,
@@ -40,6 +41,8 @@ export interface SchedulerOptions {
   retention: number
   // longest interval in days (default: ts-fsrs's 36500)
   maximumInterval?: number
+  // the crew's adopted FSRS parameters (21 weights, fitted by fit.ts); absent: the library's defaults
+  weights?: readonly number[]
 }
 
 export interface TrackReview {
@@ -60,14 +63,21 @@ export function schedulerFor(options: SchedulerOptions): FSRS {
   if (!Number.isInteger(maximumInterval) || maximumInterval < 1) {
     throw new RangeError(`maximumInterval must be a whole number of days >= 1, got ${maximumInterval}`)
   }
-  const key = `${retention}|${maximumInterval}`
+  const weights = options.weights
+  if (weights !== undefined && (weights.length !== default_w.length || !weights.every(Number.isFinite))) {
+    throw new RangeError(`weights must be ${default_w.length} finite numbers, got ${weights.length}`)
+  }
+  const key = `${retention}|${maximumInterval}|${weights ? weights.join(',') : ''}`
   let scheduler = schedulers.get(key)
   if (!scheduler) {
+    // a fitted set is one per crew and changes at most weekly: the cache stays small
+    if (schedulers.size > 256) schedulers.clear()
     scheduler = fsrs(generatorParameters({
       request_retention: retention,
       maximum_interval: maximumInterval,
       enable_fuzz: false,
       enable_short_term: true,
+      ...(weights ? { w: [...weights] } : {}),
     }))
     schedulers.set(key, scheduler)
   }
@@ -138,10 +148,10 @@ export function reviewTrack(state: TrackState, grade: CallGrade, nowMs: number, 
  * days; the two agree at whole days). A new track, or one with no last call, has 0,
  * as in ts-fsrs.
  */
-export function retrievability(state: TrackState, nowMs: number): number {
+export function retrievability(state: TrackState, nowMs: number, weights?: readonly number[]): number {
   if (state.state === State.New || state.lastReview === null || state.stability <= 0) return 0
   const elapsedDays = Math.max(0, nowMs - state.lastReview) / DAY_MS
-  return forgetting_curve(schedulerFor({ retention: 0.9 }).parameters.w, elapsedDays, state.stability)
+  return forgetting_curve(schedulerFor({ retention: 0.9, weights }).parameters.w, elapsedDays, state.stability)
 }
 
 /** The stage shown to people for a track at nowMs (rules in shared/utils/grade.ts). */

@@ -1,0 +1,21 @@
+CREATE TABLE `crew_fsrs_params` (
+	`crew_id` text PRIMARY KEY NOT NULL,
+	`status` text DEFAULT 'idle' NOT NULL,
+	`progress` real DEFAULT 0 NOT NULL,
+	`message` text,
+	`calls` integer DEFAULT 0 NOT NULL,
+	`tracks` integer DEFAULT 0 NOT NULL,
+	`needed` integer DEFAULT 0 NOT NULL,
+	`default_log_loss` real,
+	`default_rmse` real,
+	`fitted_log_loss` real,
+	`fitted_rmse` real,
+	`fitted_weights` text,
+	`adopted_weights` text,
+	`requested_by` text,
+	`started_at` integer,
+	`finished_at` integer,
+	`created_at` integer DEFAULT (unixepoch('subsec') * 1000) NOT NULL,
+	`updated_at` integer DEFAULT (unixepoch('subsec') * 1000) NOT NULL,
+	FOREIGN KEY (`crew_id`) REFERENCES `crews`(`id`) ON UPDATE no action ON DELETE cascade
+);

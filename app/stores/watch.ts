@@ -1,18 +1,15 @@
 // The running watch on the phone: its sightings in the order still to come, the calls made, the
 // preloaded and decoded images, and the frame log the tests read (window.__glintFrames).
 // Offline: the watch and its pack are kept in IndexedDB; calls made with no connection are graded
-// here with the shared gradeCall, queued with their own time and sent in order when it returns.
+// here with the shared gradeAnswer, queued with their own time and sent in order when it returns.
 import { defineStore } from 'pinia'
 import { watch as observe } from 'vue'
 import type { CallResult, Introduction, IssuedSighting, IssuedWatch, PackSighting, WatchPack } from '#shared/types/drill'
 import type { CallInput } from '#shared/schemas/drill'
-import { gradeCall } from '#shared/utils/grade'
-import { matchTypedAnswer } from '#shared/utils/typed-answer'
+import { gradeAnswer, RESHOW_GAP } from '#shared/utils/call'
 import { isNetworkFailure, offlineWatch } from '~/composables/useOfflineWatch'
 import type { QueuedCall, ShownResult, StoredWatch } from '~/composables/useOfflineWatch'
 
-// Other sightings between a missed one and its re-show (product.md; the server's queue uses the same gap).
-const RESHOW_GAP = 3
 // Retry of a failed sync: doubling from 1 s up to 30 s (common practice, no source).
 const RETRY_FIRST_MS = 1000
 const RETRY_MAX_MS = 30_000
@@ -273,7 +270,7 @@ export const useWatchStore = defineStore('watch', () => {
     return true
   }
 
-  // The phone's grade: the same gradeCall and the pack's answer (the server's grade replaces it).
+  // The phone's grade: the same gradeAnswer and the pack's answer (the server's grade replaces it).
   function gradeHere(s: IssuedSighting, body: CallInput): ShownResult {
     const p = pack?.sightings.find(x => x.id === s.id) as PackSighting | undefined
     const calledAt = body.calledAt ?? Date.now()
@@ -283,15 +280,8 @@ export const useWatchStore = defineStore('watch', () => {
         answer: { id: '', choiceId: null, name: '', features: {} }, latencyMs: body.latencyMs, calledAt, track: { stage: 'new', due: calledAt }, local: true,
       }
     }
-    let correct = false
-    if (body.typed !== undefined) correct = matchTypedAnswer(body.typed, pack!.names, p.answer.id).correct
-    else if (body.choiceId) correct = body.choiceId === p.answer.choiceId
-    const noCall = !body.choiceId && body.typed === undefined
-    const { grade, anticipation } = gradeCall({
-      correct,
-      latencyMs: noCall ? null : body.latencyMs,
-      hesitationMs: Math.min(p.hesitationMs, p.windowMs),
-      windowMs: p.windowMs,
+    const { correct, grade, anticipation } = gradeAnswer(body, {
+      answerTypeId: p.answer.id, answerChoiceId: p.answer.choiceId, names: () => pack!.names, hesitationMs: p.hesitationMs, windowMs: p.windowMs,
     })
     // A wrong name: the called type and its picture from the pack, as the server's reveal has them.
     const other = !correct && body.choiceId ? p.choiceTypes?.find(c => c.choiceId === body.choiceId) : undefined

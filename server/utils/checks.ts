@@ -16,6 +16,7 @@ import { isUntilCall, maskUrlFor, sightingImageUrl, viewsWithRenderings } from '
 import type { ContentVariant, DeckContent, PlannedChoice } from './drill-plan'
 import type { Actor } from './gate'
 import { crewsLedOver, hasRole } from './gate'
+import { allOrNothing } from './group-commit'
 import { newCallId, newId } from './ids'
 import { loadDrillContent, watchDay } from './watch'
 
@@ -459,7 +460,7 @@ export interface CheckCallFields {
  * feedback; the last call of the attempt finishes it. A finished or reset attempt takes no call.
  */
 export function recordCheckCall(sqlite: Database, f: CheckCallFields, nowMs = Date.now()): CheckCallRecorded {
-  return sqlite.transaction(() => {
+  return allOrNothing(sqlite, () => {
     const again = sqlite.prepare('SELECT result FROM calls WHERE sighting_id = ?').get(f.sightingId) as { result: string } | undefined
     if (again) return JSON.parse(again.result) as CheckCallRecorded
     const attempt = sqlite.prepare('SELECT id, status FROM check_attempts WHERE watch_id = ?').get(f.watchId) as { id: string, status: string } | undefined
@@ -475,7 +476,7 @@ export function recordCheckCall(sqlite: Database, f: CheckCallFields, nowMs = Da
       AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id)`).get(f.watchId) as { n: number }).n
     if (left === 0) finishAttemptRow(sqlite, attempt.id, nowMs)
     return result
-  }).immediate()
+  })
 }
 
 /** score = right calls / sightings of the attempt (an uncalled sighting counts as wrong); passed when score >= pass mark. */

@@ -80,6 +80,16 @@ function flush(sqlite: Database, queue: Queue) {
 }
 
 /**
+ * Runs a write all or nothing: in its own IMMEDIATE transaction, or inside the caller's when one
+ * is open (a group commit's job, which the group rolls back alone on a throw). A nested savepoint
+ * would copy every page the write touches into the sub-journal once more. Domain writes use this
+ * instead of sqlite.transaction, so they read the same whether or not a group commit runs them.
+ */
+export function allOrNothing<T>(sqlite: Database, fn: () => T): T {
+  return sqlite.inTransaction ? fn() : sqlite.transaction(fn).immediate()
+}
+
+/**
  * Runs fn inside the next shared transaction on sqlite and resolves with its result after the
  * COMMIT. fn must be synchronous and only touch this database (it may open its own nested
  * transactions); it may run twice, when another job of its group throws (the first run is rolled

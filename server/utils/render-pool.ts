@@ -1,13 +1,12 @@
 // The worker pool (piscina) that decodes and renders uploads off the request thread, with a
 // memory bound per worker thread and a time bound per task.
-import { existsSync } from 'node:fs'
 import { availableParallelism } from 'node:os'
-import { dirname, join, resolve } from 'node:path'
-import { fileURLToPath } from 'node:url'
+import { resolve } from 'node:path'
 import { MessageChannel } from 'node:worker_threads'
 import { Piscina } from 'piscina'
 import type { Backdrop } from '../core/imaging/render'
 import type { RenderResult, RenderTask } from '../workers/render-worker'
+import { builtWorker } from './worker-file'
 
 export const RENDER_TIMEOUT_MS = 20_000
 // V8 heap bound of each worker thread; the pixel limit checked before decoding (sniff.ts)
@@ -16,17 +15,11 @@ export const WORKER_HEAP_MB = 192
 
 let pool: Piscina<RenderTask, RenderResult> | undefined
 
-// The built server carries workers/render-worker.mjs beside its chunks (build-worker.ts);
-// from the sources (nuxt dev, tests) the TypeScript worker runs through tsx.
-function workerFile(): { filename: string, execArgv: string[] } {
+// From the sources (no built worker) the TypeScript worker runs through tsx.
+function renderWorkerFile(): { filename: string, execArgv: string[] } {
   if (process.env.GLINT_RENDER_WORKER) return { filename: resolve(process.env.GLINT_RENDER_WORKER), execArgv: [] }
-  let dir = dirname(fileURLToPath(import.meta.url))
-  for (let i = 0; i < 4; i++) {
-    const built = join(dir, 'workers', 'render-worker.mjs')
-    if (existsSync(built)) return { filename: built, execArgv: [] }
-    dir = dirname(dir)
-  }
-  return { filename: resolve('server/workers/render-worker.ts'), execArgv: ['--import', 'tsx'] }
+  const built = builtWorker('render-worker')
+  return built ? { filename: built, execArgv: [] } : { filename: resolve('server/workers/render-worker.ts'), execArgv: ['--import', 'tsx'] }
 }
 
 export function renderThreads() {
@@ -36,7 +29,7 @@ export function renderThreads() {
 
 export function renderPool() {
   if (!pool) {
-    const { filename, execArgv } = workerFile()
+    const { filename, execArgv } = renderWorkerFile()
     const threads = renderThreads()
     pool = new Piscina<RenderTask, RenderResult>({
       filename,

@@ -1,5 +1,5 @@
 import { eq } from 'drizzle-orm'
-import type { Role, Me } from '#shared/types/roles'
+import type { Me } from '#shared/types/roles'
 import type { Actor } from './gate'
 
 export function findUserByEmail(email: string) {
@@ -22,14 +22,6 @@ export function meOf(actor: Actor): Me {
     crews: crewsOf(actor.id),
     nightMode: (user?.nightMode ?? 'auto') as Me['nightMode'],
   }
-}
-
-export function setRoles(userId: string, roles: Role[]) {
-  const db = useDb()
-  db.transaction((tx) => {
-    tx.delete(tables.userRoles).where(eq(tables.userRoles.userId, userId)).run()
-    for (const role of new Set(roles)) tx.insert(tables.userRoles).values({ userId, role }).run()
-  })
 }
 
 export function startSession(event: import('h3').H3Event, user: { id: string, sessionVersion: number }) {

@@ -8,8 +8,7 @@ import { createError } from 'h3'
 import { newTrackState, reviewTrack, stageOf } from '../core/scheduling/fsrs'
 import type { TrackState } from '../core/scheduling/fsrs'
 import type { Rng } from '../core/watch/rng'
-import { gradeCall } from '../../shared/utils/grade'
-import { matchTypedAnswer } from '../../shared/utils/typed-answer'
+import { gradeAnswer } from '../../shared/utils/call'
 import type { CallInput } from '../../shared/schemas/drill'
 import type { CallResult, DeckWorkload, Introduction, IssuedSighting, IssuedWatch, TeachingPicture, WatchPack, WatchToday } from '../../shared/types/drill'
 import {
@@ -18,6 +17,7 @@ import {
 } from './drill-plan'
 import { PRACTICE_SIZE } from '../core/watch/queue'
 import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from './drill-plan'
+import { allOrNothing } from './group-commit'
 import { newCallId, newId } from './ids'
 import { recordCheckCall } from './checks'
 import { weightsForCall } from './fsrs-fit'
@@ -540,13 +540,6 @@ interface CallSightingRow {
   answerMode: string | null
 }
 
-// A write that must be all or nothing: its own IMMEDIATE transaction, or the caller's when one is
-// open (a group commit runs each job in a savepoint that rolls back a throw); a second savepoint
-// would copy every page the write touches into the sub-journal again.
-function atomically<T>(sqlite: Database, fn: () => T): T {
-  return sqlite.inTransaction ? fn() : sqlite.transaction(fn).immediate()
-}
-
 /**
  * Takes one call: graded by gradeCall, the track reviewed by FSRS at the call's own time
  * (calledAt bounded to [issuedAt, now]; more than CALL_LATE_LIMIT_MS after issue is refused), the
@@ -566,30 +559,18 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
   }
   const choices = JSON.parse(s.choices) as PlannedChoice[]
   const type = stmt(sqlite, 'answerType').get(s.targetTypeId) as { id: string, name: string, features: string }
-  let correct = false
-  let calledTypeId: string | null = null
-  let choiceId: string | null = null
-  if (input.typed !== undefined) {
-    const names = stmt(sqlite, 'deckNames').all(s.deckId) as { id: string, name: string }[]
-    const match = matchTypedAnswer(input.typed, names, s.targetTypeId)
-    correct = match.correct
-    calledTypeId = match.matchedId
-  }
-  else if (input.choiceId) {
-    const choice = choices.find(c => c.id === input.choiceId)
-    if (!choice) throw createError({ statusCode: 400, message: 'choiceId: That choice does not belong to this sighting.' })
-    choiceId = choice.id
-    calledTypeId = choice.typeId
-    correct = choice.id === s.answerChoiceId
-  }
+  const choice = input.typed === undefined && input.choiceId ? choices.find(c => c.id === input.choiceId) : undefined
+  if (input.typed === undefined && input.choiceId && !choice) throw createError({ statusCode: 400, message: 'choiceId: That choice does not belong to this sighting.' })
+  const choiceId = choice?.id ?? null
   const latencyMs = input.latencyMs
-  const windowMs = s.windowMs
-  const { grade, anticipation } = gradeCall({
-    correct,
-    latencyMs: choiceId === null && input.typed === undefined ? null : latencyMs,
-    hesitationMs: Math.min(s.hesitationMs ?? windowMs, windowMs),
-    windowMs,
+  const { correct, grade, anticipation, typedTypeId } = gradeAnswer({ choiceId, typed: input.typed, latencyMs }, {
+    answerTypeId: s.targetTypeId,
+    answerChoiceId: s.answerChoiceId,
+    names: () => stmt(sqlite, 'deckNames').all(s.deckId) as { id: string, name: string }[],
+    hesitationMs: s.hesitationMs,
+    windowMs: s.windowMs,
   })
+  const calledTypeId = input.typed !== undefined ? typedTypeId : choice?.typeId ?? null
   // A check's call gives no feedback and leaves the tracks alone (server/utils/checks.ts).
   if (s.kind === 'check') {
     return recordCheckCall(sqlite, {
@@ -599,7 +580,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     }, nowMs)
   }
 
-  return atomically(sqlite, () => {
+  return allOrNothing(sqlite, () => {
     const again = stmt(sqlite, 'callResult').get(sightingId) as { result: string } | undefined
     if (again) return JSON.parse(again.result) as CallResult
     const trackRow = s.trackId ? stmt(sqlite, 'track').get(s.trackId) as TrackRow | undefined : undefined

@@ -1,6 +1,6 @@
-// Bundles the render worker (with the codecs' .wasm files) and the fit's child process with esbuild
-// next to the built server, because Nitro bundles only what the server imports and a worker thread
-// or a child process needs a file of its own.
+// Bundles the worker threads (the render worker, with the codecs' .wasm files, and the checkpoint
+// thread) and the fit's child process with esbuild next to the built server, because Nitro bundles
+// only what the server imports and a worker thread or a child process needs a file of its own.
 import { copyFile, mkdir } from 'node:fs/promises'
 import { createRequire } from 'node:module'
 import { basename, dirname, join, resolve } from 'node:path'
@@ -10,13 +10,19 @@ import { WASM_FILES } from '../core/imaging/codecs'
 
 const here = dirname(fileURLToPath(import.meta.url))
 
-/** Writes <serverDir>/workers/render-worker.mjs and <serverDir>/workers/wasm/*.wasm. */
+/**
+ * Writes <serverDir>/workers/render-worker.mjs, <serverDir>/workers/wasm/*.wasm and
+ * <serverDir>/workers/checkpoint-worker.mjs (which loads better-sqlite3 from the server's node_modules).
+ */
 export async function buildRenderWorker(serverDir: string) {
   const out = join(resolve(serverDir), 'workers')
   await mkdir(join(out, 'wasm'), { recursive: true })
   await build({
-    entryPoints: [join(here, 'render-worker.ts')],
-    outfile: join(out, 'render-worker.mjs'),
+    entryPoints: [join(here, 'render-worker.ts'), join(here, 'checkpoint-worker.ts')],
+    outdir: out,
+    outExtension: { '.js': '.mjs' },
+    // The native driver stays a package (Nitro traces it into the server's node_modules).
+    external: ['better-sqlite3'],
     bundle: true,
     platform: 'node',
     format: 'esm',

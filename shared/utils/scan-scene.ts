@@ -8,6 +8,7 @@
 // because no phone can show a 7x view of a 7° field at the reference pixel's scale.
 
 import type { Condition } from './conditions'
+import { mulberry32 } from './rng'
 import { median } from './statistics'
 import { rangeForPx, BINOCULAR_MAGNIFICATION } from './apparent-size'
 import {
@@ -87,18 +88,6 @@ export function scanPatternSettings(config: ScanDrillConfig): ScanSettings {
   }
 }
 
-/** mulberry32: a small seedable generator of floats in [0, 1), so a scene can be replayed. */
-export function scanRng(seed: number): () => number {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
-
 const between = (rng: () => number, lo: number, hi: number) => lo + (hi - lo) * rng()
 const pick = <T>(rng: () => number, items: readonly T[]): T => items[Math.min(items.length - 1, Math.floor(rng() * items.length))]!
 
@@ -120,7 +109,7 @@ export function contactVisibleMs(config: ScanDrillConfig): number {
  * inside the drill; sorted by the time they show, ids c1, c2, ...
  */
 export function placeScanContacts(config: ScanDrillConfig, seed: number): ScanContact[] {
-  const rng = scanRng(seed)
+  const rng = mulberry32(seed)
   const lengthMs = config.lengthS * 1000
   const count = Math.max(1, Math.round(config.contactsPerMinute * config.lengthS / 60))
   const visibleMs = contactVisibleMs(config)
@@ -157,7 +146,7 @@ export function scanContactPx(contact: Pick<ScanContact, 'sizeM' | 'rangeM'>, fi
 
 /** The sun's place in the scene, by seed: a bearing inside or near the sector, 15–35° up. */
 export function scanSun(config: Pick<ScanDrillConfig, 'startBearing' | 'endBearing'>, seed: number): { bearing: number, positionAngle: number } {
-  const rng = scanRng(seed ^ 0x5EED5)
+  const rng = mulberry32(seed ^ 0x5EED5)
   const width = sectorWidth(config.startBearing, config.endBearing)
   return { bearing: normalizeBearing(config.startBearing + rng() * width), positionAngle: 15 + rng() * 20 }
 }

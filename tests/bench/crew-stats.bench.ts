@@ -7,6 +7,7 @@ import { join } from 'node:path'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { applyMigrations, openDatabase } from '../../server/database/client'
 import { quantile } from '../../shared/utils/statistics'
+import { mulberry32 as rng } from '../../shared/utils/rng'
 import { freePort, testEnv, waitForHealth } from '../support/global-setup'
 import { ensureBuild } from './build'
 
@@ -23,18 +24,6 @@ const ASPECTS = ['head-on', 'beam', 'plan', 'bow-quarter']
 const CONDITIONS = ['backlit', 'sunlit', 'dark-cloud', 'white-cloud', 'haze', 'goggles']
 const DAY = 86_400_000
 const PASSWORD = 'bench lead pass phrase'
-
-// Deterministic pseudo-random numbers (mulberry32), so every run measures the same data.
-function rng(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
 
 // Log-normal latencies (the usual shape of reaction times, common practice, no source).
 function normal(r: () => number) {

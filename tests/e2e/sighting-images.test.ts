@@ -56,7 +56,9 @@ beforeAll(async () => {
 describe('sighting pictures at per-sighting addresses (issue 14, item 1)', () => {
   it('serves every watch and check sighting at /images/s/<sighting id>.webp', () => {
     for (const s of [...watch.sightings, ...check.sightings]) expect(s.imageUrl).toBe(`/images/s/${s.id}.webp`)
-    expect(watch.sightings.length).toBeGreaterThan(0)
+    // The watch answer lists exactly the sightings stored for the watch, in their order.
+    const stored = readDb(db => (db.prepare('SELECT id FROM sightings WHERE watch_id = ? ORDER BY position').all(watch.id) as { id: string }[]).map(r => r.id))
+    expect(watch.sightings.map(s => s.id)).toEqual(stored)
     expect(check.sightings).toHaveLength(6)
   })
 

@@ -67,4 +67,24 @@ describe('checkpoint thread', () => {
     writer.prepare('INSERT INTO t (v) VALUES (?)').run('after stop')
     expect(writer.prepare('SELECT v FROM t').pluck().all()).toEqual(['after stop'])
   })
+
+  // A bug fix: stop() waited for an exit that had already happened, so a server closing after the
+  // thread failed hung. A database file removed once open leaves the thread nothing to open (fileMustExist).
+  it('stops at once when the thread has already failed', async () => {
+    const gone = new Database(join(dir, 'gone.sqlite'))
+    rmSync(join(dir, 'gone.sqlite'))
+    const checkpointer = startCheckpointer(gone, { idleMs: 20 })
+    try {
+      for (let waited = 0; waited < 10_000 && gone.pragma('wal_autocheckpoint', { simple: true }) !== 1000; waited += 50) {
+        await new Promise(r => setTimeout(r, 50))
+      }
+      const stopped = await Promise.race([checkpointer.stop().then(() => 'stopped'), new Promise(done => setTimeout(() => done('hung'), 2000))])
+      expect(stopped).toBe('stopped')
+      // The writer got its own automatic checkpoint back (SQLite's default, sqlite.org/pragma.html#pragma_wal_autocheckpoint).
+      expect(gone.pragma('wal_autocheckpoint', { simple: true })).toBe(1000)
+    }
+    finally {
+      gone.close()
+    }
+  })
 })

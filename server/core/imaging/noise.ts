@@ -9,18 +9,6 @@ export function hash32(x: number, y: number, octave: number, seed: number): numb
   return (h ^ (h >>> 16)) >>> 0
 }
 
-/** Small seeded generator (mulberry32), uniform in [0, 1). */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
-
 export interface NoiseSpec {
   /** size of the coarsest lattice cell along x, as a share of the long side */
   cell: number

@@ -4,7 +4,8 @@ import { linearChannelToSrgb, srgbChannelToLinear, weberContrast } from '../../.
 import { CONDITIONS, type Condition } from '../../../shared/utils/conditions'
 import { ImageRejected } from './errors'
 import type { Box, Mask } from './mask'
-import { hash32, type NoiseSpec, seededRandom, valueNoise } from './noise'
+import { mulberry32 } from '../../../shared/utils/rng'
+import { hash32, type NoiseSpec, valueNoise } from './noise'
 
 /** Long-side sizes, in pixels, every view is rendered at. */
 export const RENDER_SIZES = [320, 640, 1080] as const
@@ -73,13 +74,16 @@ interface Scene {
   filter?: Rgb
 }
 
-// Linear-light colours chosen so that each condition lands inside its band of CONTRAST_BANDS.
+// Linear-light colours: design values, no source. Chosen so that each condition lands inside its
+// band of CONTRAST_BANDS and so that the Weber contrast of the target falls along the difficulty
+// order from backlit on (backlit > haze > goggles > dark cloud; tests/e2e/contrast-order.test.ts
+// checks it on the served renderings).
 const BLUE_TOP: Rgb = [0.10, 0.21, 0.55]
 const BLUE_BOTTOM: Rgb = [0.20, 0.32, 0.62]
 const SEA_TOP: Rgb = [0.045, 0.11, 0.19]
 const SEA_BOTTOM: Rgb = [0.02, 0.06, 0.11]
 const AIRLIGHT: Rgb = [0.60, 0.62, 0.66]
-const HAZE_TRANSMISSION = 0.45
+const HAZE_TRANSMISSION = 0.65
 
 const SCENES: Record<Condition, Scene> = {
   'sunlit': {
@@ -102,7 +106,7 @@ const SCENES: Record<Condition, Scene> = {
     skyTop: [0.060, 0.063, 0.072], skyBottom: [0.070, 0.073, 0.080], skyVariation: 0.03,
     cloud: { colour: [0.080, 0.082, 0.090], from: 0.3, to: 0.7, variation: 0.25 },
     seaTop: [0.050, 0.055, 0.060], seaBottom: [0.035, 0.040, 0.045],
-    target: [0.05, 0.05, 0.052], shade: 0.06, veil: 0, blur: 0,
+    target: [0.053, 0.053, 0.055], shade: 0.06, veil: 0, blur: 0,
   },
   'haze': {
     skyTop: [AIRLIGHT[0] * 0.95, AIRLIGHT[1] * 0.95, AIRLIGHT[2] * 0.96], skyBottom: [AIRLIGHT[0] * 1.03, AIRLIGHT[1] * 1.03, AIRLIGHT[2] * 1.02], skyVariation: 0.02,
@@ -116,8 +120,10 @@ const SCENES: Record<Condition, Scene> = {
   },
   'goggles': {
     skyTop: BLUE_TOP, skyBottom: BLUE_BOTTOM, skyVariation: 0.04,
-    seaTop: SEA_TOP, seaBottom: SEA_BOTTOM,
-    target: [0.09, 0.09, 0.09], shade: 0.08, veil: 0, blur: 0,
+    // A sea lighter than under sunlit light (the sky it reflects near the horizon), so that a vessel
+    // under goggles keeps about the contrast of an aircraft against the sky.
+    seaTop: [0.12, 0.20, 0.30], seaBottom: [0.06, 0.12, 0.20],
+    target: [0.115, 0.115, 0.115], shade: 0.08, veil: 0, blur: 0,
     // An amber filter: neutral light dimmed, blue cut hardest, so blue sky darkens most.
     filter: [0.14, 0.09, 0.02],
   },
@@ -351,7 +357,7 @@ export function renderCoverage(cov: Coverage, condition: Condition, seed: number
   const cloudNoise = scene.cloud ? noiseField(width, height, { cell: 0.45, octaves: 5 }, seed ^ 0x5BD1E995, options.scratch) : null
   const seaNoise = horizon < height ? noiseField(width, height, { cell: 0.25, octaves: 3, stretch: 6 }, seed ^ 0x1B873593, options.scratch) : null
 
-  const random = seededRandom(conditionSeed)
+  const random = mulberry32(conditionSeed)
   const sunX = random() * width
   const sunY = -(0.15 + 0.25 * random()) * height
   const glareReach = 1 / (0.55 * Math.hypot(width, height))

@@ -2,6 +2,7 @@
 import { State } from 'ts-fsrs'
 import { retrievability } from '../scheduling/fsrs'
 import type { TrackState } from '../scheduling/fsrs'
+import { RESHOW_GAP } from '../../../shared/utils/call'
 
 export interface QueueTrack {
   id: string
@@ -110,8 +111,8 @@ export function spreadByType<T>(items: readonly T[], typeOf: (item: T) => string
   return out
 }
 
-/** At least this many other sightings come between a missed sighting and its re-show. */
-export const RESHOW_GAP = 3
+// At least RESHOW_GAP other sightings come between a missed sighting and its re-show.
+export { RESHOW_GAP }
 
 /**
  * Puts a missed track back into the queue after at least RESHOW_GAP other sightings

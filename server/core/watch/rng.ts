@@ -1,18 +1,10 @@
-// Small seedable random numbers, so that a watch's plan and choices can be replayed and tested.
+// Seeds and draws for a watch's plan and choices, from the one seedable generator (shared/utils/rng.ts).
 
-export type Rng = () => number
+import { mulberry32 } from '../../../shared/utils/rng'
+import type { Rng } from '../../../shared/utils/rng'
 
-/** mulberry32: a 32-bit state generator returning floats in [0, 1). */
-export function mulberry32(seed: number): Rng {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
+export { mulberry32 }
+export type { Rng }
 
 /** A 32-bit seed from a string (FNV-1a), e.g. from a watch id and a position. */
 export function seedFromString(text: string): number {

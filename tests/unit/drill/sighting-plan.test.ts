@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { LOOKOUT_EYE_HEIGHT_M, placeRange, planSighting, PX_BY_RUNG } from '../../../server/core/watch/sighting-plan'
-import { horizonDistanceM } from '../../../shared/utils/apparent-size'
+import { horizonDistanceM, horizonDistanceNm } from '../../../shared/utils/apparent-size'
 import type { PlanInput } from '../../../server/core/watch/sighting-plan'
 import { mulberry32 } from '../../../server/core/watch/rng'
 
@@ -83,6 +83,14 @@ describe('planSighting', () => {
 // table of distance to the horizon), all written out here.
 describe('placeRange: every stage band for every size from 10 to 300 m', () => {
   const lookoutHorizonM = 1.17 * Math.sqrt(15 / 0.3048) * 1852
+
+  // Bowditch (1995 and 2002 editions, chapter 22): D = 1.17·√h, h in feet, D in nautical miles, with
+  // refraction; the table of distance to the horizon lists it to 0.1 nm. (The metre form printed
+  // beside it, 2.07·√h, does not agree with the feet form; the feet form is the one used.)
+  it('matches the distance to the horizon at the table\'s heights, to its 0.1 nm (Bowditch)', () => {
+    const table: [number, number][] = [[1, 1.2], [10, 3.7], [50, 8.3], [100, 11.7], [1000, 37.0]]
+    for (const [feet, nm] of table) expect(Math.round(horizonDistanceNm(feet) * 10) / 10, `${feet} ft`).toBe(nm)
+  })
 
   it('the lookout horizon of a 15 m (49.2 ft) eye is about 8.2 nm, 15.2 km (Bowditch)', () => {
     expect(lookoutHorizonM / 1852).toBeCloseTo(8.21, 2)

@@ -11,6 +11,7 @@ import { DAY_MS, isRightCall } from '../../../server/core/reports/crew-stats'
 import type { CallRecord } from '../../../server/core/reports/crew-stats'
 import { PAIR_COUNTS_SQL, crewStatsOf, loadPersonCalls, packedSql, personReportOf, readinessOnDecks } from '../../../server/utils/stats'
 import { digestDay, digestWeek } from '../../../server/utils/digests'
+import { mulberry32 as rng } from '../../../shared/utils/rng'
 
 const NOW = Date.UTC(2025, 5, 16, 12)
 const ASPECTS = ['beam', 'head-on']
@@ -19,18 +20,6 @@ let dir: string
 let sqlite: Database
 const people = ['p1aaaaaaaa', 'p2aaaaaaaa', 'p3aaaaaaaa']
 const types = ['ty1aaaaaaa', 'ty2aaaaaaa', 'ty3aaaaaaa']
-
-// Deterministic pseudo-random numbers (mulberry32).
-function rng(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
 
 beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'glint-stats-unit-'))

@@ -98,7 +98,7 @@ export async function freshPerson(role: 'trainee' | 'instructor' | 'lead' | 'adm
   if (inv.status !== 201) throw new Error(`invite: ${inv.status} ${inv.text}`)
   const token = await linkFromOutbox(admin, email, '/invite')
   const c = new Client()
-  const r = await c.post('/api/invites/accept', { token, name: `Test ${role} ${freshCount}`, password })
+  const r = await c.post('/api/invites/accept', { token, name: `Test ${role} ${process.pid}-${freshCount}`, password })
   if (r.status !== 201) throw new Error(`accept: ${r.status} ${r.text}`)
   return { client: c, email, password, id: r.body.id as string }
 }

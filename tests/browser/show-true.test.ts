@@ -339,7 +339,8 @@ describe('item 8: offline from the first visit (Chromium\'s offline emulation)',
     await expect.poll(() => page.getByTestId('sync-status').textContent()).toMatch(/^Offline/)
     await shownSighting(page)
     await callAny(page)
-    expect(await page.getByTestId('sync-status').textContent()).toContain('Offline: 1 call waiting to sync')
+    // The call is queued in IndexedDB first; the status line follows when the queue is counted.
+    await expect.poll(() => page.getByTestId('sync-status').textContent()).toContain('Offline: 1 call waiting to sync')
 
     for (const path of paths) {
       const res = await page.goto(path)

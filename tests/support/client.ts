@@ -70,6 +70,8 @@ export async function linkFromOutbox(admin: Client, to: string, path: string) {
 }
 
 let freshCount = 0
+// Names unique to this module's load: test files can share one process, each with its own count.
+const LOAD = Math.random().toString(36).slice(2, 8)
 let deputy: Promise<Client> | null = null
 
 // An admin of this test file's own, invited once by the demo admin: each sender may send 60
@@ -98,7 +100,7 @@ export async function freshPerson(role: 'trainee' | 'instructor' | 'lead' | 'adm
   if (inv.status !== 201) throw new Error(`invite: ${inv.status} ${inv.text}`)
   const token = await linkFromOutbox(admin, email, '/invite')
   const c = new Client()
-  const r = await c.post('/api/invites/accept', { token, name: `Test ${role} ${process.pid}-${freshCount}`, password })
+  const r = await c.post('/api/invites/accept', { token, name: `Test ${role} ${LOAD}-${String(freshCount).padStart(4, '0')}`, password })
   if (r.status !== 201) throw new Error(`accept: ${r.status} ${r.text}`)
   return { client: c, email, password, id: r.body.id as string }
 }

@@ -400,7 +400,7 @@ export const scanPasses = sqliteTable('scan_passes', {
 
 // ---------------------------------------------------------------- fitted scheduling
 
-// Each crew's FSRS parameters fitted from its own calls (server/utils/fsrs-fit.ts): the last fit's
+// Each crew's FSRS parameters fitted from its own calls (server/domain/crew-fits.ts): the last fit's
 // state and figures, and the set the scheduler uses (adopted_weights; NULL = the library's defaults).
 export const crewFsrsParams = sqliteTable('crew_fsrs_params', {
   crewId: text('crew_id').primaryKey().references(() => crews.id, { onDelete: 'cascade' }),

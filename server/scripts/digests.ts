@@ -31,7 +31,7 @@ if (!config.publicUrl) {
 const { useDb } = await import('../utils/db')
 const { newId } = await import('../utils/ids')
 Object.assign(globalThis, { useRuntimeConfig: () => config, useDb, tables: schema, newId })
-const { runDigests } = await import('../utils/digests')
+const { runDigests } = await import('../domain/digests')
 
 const { kind, now } = parsed.data
 const result = await runDigests(kind, now ? Date.parse(now) : Date.now())

@@ -6,7 +6,7 @@ import { randomBytes } from 'node:crypto'
 import type { GlintDb } from '../database/client'
 import { mulberry32, seedFromString } from '../core/watch/rng'
 import type { Rng } from '../core/watch/rng'
-import { callSighting, issueWatch } from '../utils/watch'
+import { callSighting, issueWatch } from '../domain/watches'
 import type { IssuedSighting } from '../../shared/types/drill'
 import type { SeedContext } from './decks'
 

@@ -1,4 +1,5 @@
 import { AuditQuery } from '#shared/schemas/admin'
+import { listAudit } from '../../domain/admin'
 
 // The audit log, newest first, filtered by action and a search, a page at a time (X-Total-Count
 // holds how many matched). Each entry names the people, crews, decks and checks it points at.

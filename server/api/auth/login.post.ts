@@ -1,4 +1,5 @@
 import { LoginBody } from '#shared/schemas/auth'
+import { findUserByEmail, meOf, startSession, DUMMY_HASH, requireActorFor } from '../../domain/people'
 
 const WRONG = 'That e-mail and password do not match an account.'
 

@@ -1,1 +1,3 @@
+import { meOf } from '../../domain/people'
+
 export default defineEventHandler(async event => meOf(await requireActor(event)))

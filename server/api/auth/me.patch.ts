@@ -1,5 +1,6 @@
 import { eq } from 'drizzle-orm'
 import { PrefsPatch } from '#shared/schemas/auth'
+import { meOf } from '../../domain/people'
 
 // The signed-in person's own name and preferences.
 export default defineEventHandler(async (event) => {

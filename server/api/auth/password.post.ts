@@ -1,5 +1,6 @@
 import { eq, sql } from 'drizzle-orm'
 import { PasswordChangeBody } from '#shared/schemas/admin'
+import { startSession } from '../../domain/people'
 
 // The signed-in person changes their own password. The current one is asked (and counted like a
 // sign-in, NIST SP 800-63B §5.2.2); the session version is raised so every other session ends,

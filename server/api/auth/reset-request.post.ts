@@ -1,4 +1,5 @@
 import { ResetRequestBody } from '#shared/schemas/auth'
+import { mailResetLink } from '../../domain/password-resets'
 
 // Always the same answer in the same time, so the route does not reveal which addresses have
 // accounts (OWASP Authentication Cheat Sheet, "Authentication and Error Messages"): the lookup,

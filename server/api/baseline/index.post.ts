@@ -1,4 +1,5 @@
 import { BaselineBody } from '#shared/schemas/drill'
+import { saveTapBaseline } from '../../domain/tap-baselines'
 
 // Stores a tap baseline: the person's own simple and choice reaction times on this device.
 export default defineEventHandler(async (event) => {

@@ -1,4 +1,5 @@
 import { CheckBody } from '#shared/schemas/checks'
+import { createCheck } from '../../domain/checks'
 
 // An instructor defines a check on a published deck of their own.
 export default defineEventHandler(async (event) => {

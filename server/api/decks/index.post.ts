@@ -1,4 +1,5 @@
 import { DeckBody } from '#shared/schemas/decks'
+import { createDeck } from '../../domain/decks'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'instructor')

@@ -1,4 +1,5 @@
 import { DigestRunBody } from '#shared/schemas/stats'
+import { runDigests } from '../../domain/digests'
 
 // Sends the weekly digests or the daily reminders now (the admin's button; the schedule does it too).
 export default defineEventHandler(async (event) => {

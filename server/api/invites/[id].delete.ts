@@ -1,5 +1,6 @@
 import { and, eq, isNull } from 'drizzle-orm'
 import { IdParam } from '#shared/schemas/params'
+import { pendingInvitation } from '../../domain/invitations'
 
 // Withdraws a waiting invitation: its link then says so when opened.
 export default defineEventHandler(async (event) => {

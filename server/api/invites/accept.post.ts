@@ -1,5 +1,7 @@
 import { and, eq, isNull } from 'drizzle-orm'
 import { AcceptInviteBody } from '#shared/schemas/auth'
+import { findUserByEmail, meOf, requireActorFor, startSession } from '../../domain/people'
+import { openInvitation } from '../../domain/invitation-lookup'
 
 const TAKEN = 'That address already has a Glint account. Sign in instead.'
 

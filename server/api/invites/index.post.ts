@@ -1,5 +1,7 @@
 import { eq } from 'drizzle-orm'
 import { InviteBody } from '#shared/schemas/auth'
+import { inviteProblem, issueInvitation } from '../../domain/invitations'
+import { findUserByEmail } from '../../domain/people'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'admin', 'lead', 'instructor')

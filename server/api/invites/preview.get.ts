@@ -1,6 +1,7 @@
 import { eq } from 'drizzle-orm'
 import { z } from 'zod'
 import { Token } from '#shared/schemas/auth'
+import { openInvitation } from '../../domain/invitation-lookup'
 
 export default defineEventHandler(async (event) => {
   const { token } = await queryInput(event, z.object({ token: Token }))

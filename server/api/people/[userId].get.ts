@@ -1,4 +1,5 @@
 import { PersonParam, PersonQuery } from '#shared/schemas/stats'
+import { requirePersonAccess, personReportOf } from '../../domain/stats'
 
 // One person's progress: latency over time, accuracy by aspect and condition, confusions, baseline,
 // readiness; to a lead only on the decks of the crews that lead leads.

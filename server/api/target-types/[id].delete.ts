@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnTargetType, deleteTargetType } from '../../domain/decks'
 
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)

@@ -1,5 +1,6 @@
 import { TargetTypePatch } from '#shared/schemas/decks'
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnTargetType, patchTargetType } from '../../domain/decks'
 
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)

@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnView, deleteView } from '../../domain/decks'
 
 // Moves the view to the deck's trash, restorable for VIEW_TRASH_DAYS.
 export default defineEventHandler(async (event) => {

@@ -1,7 +1,8 @@
 import { WatchBody } from '#shared/schemas/drill'
+import { issueWatch } from '../../domain/watches'
 
 // Today's watch: the open one again, or a new one issued at once; with practice, a short practice
-// when nothing is due (see server/utils/watch.ts).
+// when nothing is due (see server/domain/watches.ts).
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'trainee')
   const body = await readBody(event).catch(() => {

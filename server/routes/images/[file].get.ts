@@ -1,4 +1,5 @@
 import { ImageFileParam } from '#shared/schemas/decks'
+import { fileVisibleTo } from '../../domain/decks'
 
 // A rendering by its content hash, for those who build or manage the deck that uses it (its owner, an
 // admin). Trainees and leads never get one: their pictures come at per-sighting addresses (/images/s/).

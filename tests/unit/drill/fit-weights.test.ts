@@ -1,4 +1,4 @@
-// The parameters a trainee's call is scheduled with (server/utils/fsrs-fit.ts weightsForCall) follow
+// The parameters a trainee's call is scheduled with (server/domain/crew-fits.ts weightsForCall) follow
 // the trainee's crew as it is now: a trainee moved to another crew is scheduled with that crew's set
 // at once (issue 18: "the scheduler then uses the fitted parameters for that crew's tracks").
 import { mkdtempSync, rmSync } from 'node:fs'
@@ -8,7 +8,7 @@ import type { Database } from 'better-sqlite3'
 import { default_w } from 'ts-fsrs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase } from '../../../server/database/client'
-import { weightsForCall } from '../../../server/utils/fsrs-fit'
+import { weightsForCall } from '../../../server/domain/crew-fits'
 
 let dir: string
 let sqlite: Database

@@ -1,4 +1,4 @@
-// The crew table's SQL path (server/utils/stats.ts) on a real SQLite file: its counts and quantiles
+// The crew table's SQL path (server/domain/stats.ts) on a real SQLite file: its counts and quantiles
 // against simple-statistics on the same latencies, and its readiness against readiness() on every row.
 import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
@@ -9,8 +9,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { applyMigrations, openDatabase } from '../../../server/database/client'
 import { DAY_MS, isRightCall } from '../../../server/core/reports/crew-stats'
 import type { CallRecord } from '../../../server/core/reports/crew-stats'
-import { PAIR_COUNTS_SQL, crewStatsOf, loadPersonCalls, packedSql, personReportOf, readinessOnDecks } from '../../../server/utils/stats'
-import { digestDay, digestWeek } from '../../../server/utils/digests'
+import { PAIR_COUNTS_SQL, crewStatsOf, loadPersonCalls, packedSql, personReportOf, readinessOnDecks } from '../../../server/domain/stats'
+import { digestDay, digestWeek } from '../../../server/domain/digests'
 import { mulberry32 as rng } from '../../../shared/utils/rng'
 
 const NOW = Date.UTC(2025, 5, 16, 12)

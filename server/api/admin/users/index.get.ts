@@ -1,4 +1,5 @@
 import { PeopleQuery } from '#shared/schemas/admin'
+import { listPeople } from '../../../domain/admin'
 
 // Every account, or those whose name or e-mail holds `q`, a page at a time (newest paging header
 // X-Total-Count holds the number that matched). Each person comes with roles and crews.

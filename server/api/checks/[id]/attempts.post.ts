@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { startCheckAttempt } from '../../../domain/checks'
 
 // A trainee takes a check: its sightings issued whole, without answers; once, until a lead resets it.
 export default defineEventHandler(async (event) => {

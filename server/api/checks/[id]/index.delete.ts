@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { deleteCheck } from '../../../domain/checks'
 
 // Its instructor deletes a check while nobody has taken it (409 after: retire it instead).
 export default defineEventHandler(async (event) => {

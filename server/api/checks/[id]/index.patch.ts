@@ -1,5 +1,6 @@
 import { CheckPatch } from '#shared/schemas/checks'
 import { IdParam } from '#shared/schemas/params'
+import { updateCheck } from '../../../domain/checks'
 
 // Its instructor changes a check while nobody has taken it (409 after), its due date until it is retired.
 export default defineEventHandler(async (event) => {

@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { retireCheck } from '../../../domain/checks'
 
 // Its instructor retires a check: no longer offered, kept with its attempts and results.
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,6 @@
 import { IdParam } from '#shared/schemas/params'
 import { ConfusionsQuery } from '#shared/schemas/stats'
+import { requireCrewStatsAccess, crewConfusionsOf } from '../../../domain/stats'
 
 // The crew's confusion matrix on one deck: how often each target type was called as each other one.
 export default defineEventHandler(async (event) => {

@@ -1,4 +1,6 @@
 import { IdParam } from '#shared/schemas/params'
+import { requireCrewStatsAccess } from '../../../domain/stats'
+import { crewFitView } from '../../../domain/crew-fits'
 
 // The crew's scheduling parameters: the last fit's state and figures, the forgetting curve and
 // calibration of the default and fitted sets (leads of the crew, instructors of its decks, admins).

@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { crewScanSummary } from '../../../domain/scan'
 
 // Scan drill results per member of the crew, for the leads' views beside recognition speed.
 export default defineEventHandler(async (event) => {

@@ -1,6 +1,7 @@
 import { stringify } from 'csv-stringify/sync'
 import { IdParam } from '#shared/schemas/params'
 import { StatsCsvQuery } from '#shared/schemas/stats'
+import { requireCrewStatsAccess, crewStatsOf, crewCsvColumns, crewStatsRecords } from '../../../domain/stats'
 
 // The crew table as CSV (RFC 4180 quoting by csv-stringify), one header row of named columns with
 // units, the numbers rounded as the table shows them and times in the reader's time zone (`tz`).

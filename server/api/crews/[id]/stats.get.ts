@@ -1,5 +1,6 @@
 import { IdParam } from '#shared/schemas/params'
 import { StatsQuery } from '#shared/schemas/stats'
+import { requireCrewStatsAccess, crewStatsOf } from '../../../domain/stats'
 
 // The crew table: per trainee calls, accuracy, median and 90th percentile of right calls, trends, readiness.
 export default defineEventHandler(async (event) => {

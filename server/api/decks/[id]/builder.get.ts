@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnDeck, deckBuilderDetail } from '../../../domain/decks'
 
 // Everything the deck builder edits, for the deck's owner.
 export default defineEventHandler(async (event) => {

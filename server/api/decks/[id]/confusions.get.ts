@@ -1,4 +1,5 @@
 import { ConfusionsQuery, DeckParam } from '#shared/schemas/stats'
+import { requireDeckOwner, deckConfusionsOf } from '../../../domain/stats'
 
 // The deck's worst pairs across the crews it is assigned to, for its instructor: which look-alikes to teach.
 export default defineEventHandler(async (event) => {

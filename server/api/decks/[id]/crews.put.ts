@@ -1,5 +1,6 @@
 import { DeckCrewsBody } from '#shared/schemas/decks'
 import { IdParam } from '#shared/schemas/params'
+import { requireVisibleDeck, requireOwnDeck, setDeckCrews } from '../../../domain/decks'
 
 // Assigns the deck to crews: its owner to crews they belong to, an admin to any crew.
 export default defineEventHandler(async (event) => {

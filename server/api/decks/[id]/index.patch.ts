@@ -1,6 +1,7 @@
 import { eq } from 'drizzle-orm'
 import { DeckPatch } from '#shared/schemas/decks'
 import { IdParam } from '#shared/schemas/params'
+import { deckBuilderDetail, patchDeck, requireOwnDeck } from '../../../domain/decks'
 
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)

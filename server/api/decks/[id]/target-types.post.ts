@@ -1,5 +1,6 @@
 import { TargetTypeBody } from '#shared/schemas/decks'
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnDeck, createTargetType } from '../../../domain/decks'
 
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)

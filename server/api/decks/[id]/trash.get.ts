@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnDeck, VIEW_TRASH_DAYS, purgeViewTrash, viewTrash } from '../../../domain/decks'
 
 // The deck's removed views that can still be restored, for its owner.
 export default defineEventHandler(async (event) => {

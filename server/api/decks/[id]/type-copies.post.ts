@@ -1,5 +1,6 @@
 import { TypeCopyBody } from '#shared/schemas/decks'
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnDeck, requireOwnTargetType, copyTargetType } from '../../../domain/decks'
 
 // Copies a target type of one of the instructor's own decks, with its views, into this deck.
 export default defineEventHandler(async (event) => {

@@ -4,6 +4,7 @@ import { UPLOAD_LIMITS, UploadFields } from '#shared/schemas/decks'
 import { IdParam } from '#shared/schemas/params'
 import type { SniffedFile } from '../../../utils/jobs'
 import type { StreamedUpload } from '../../../utils/upload-stream'
+import { requireOwnDeck } from '../../../domain/decks'
 
 const MB = 1024 * 1024
 

@@ -1,5 +1,7 @@
 import { IdParam } from '#shared/schemas/params'
 import type { Role } from '#shared/types/roles'
+import { issueInvitation, pendingInvitation } from '../../../domain/invitations'
+import { findUserByEmail } from '../../../domain/people'
 
 // Sends a waiting invitation again with a new link; the old link stops working (replaced).
 export default defineEventHandler(async (event) => {

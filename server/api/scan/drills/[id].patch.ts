@@ -1,5 +1,6 @@
 import { IdParam } from '#shared/schemas/params'
 import { ScanDrillPatch } from '#shared/schemas/scan'
+import { updateScanDrill } from '../../../domain/scan'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'instructor', 'admin')

@@ -1,4 +1,5 @@
 import { ScanDrillBody } from '#shared/schemas/scan'
+import { createScanDrill } from '../../../domain/scan'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'instructor', 'admin')

@@ -1,4 +1,5 @@
 import { ScanPassesQuery } from '#shared/schemas/scan'
+import { listScanPasses } from '../../../domain/scan'
 
 // Own passes; a lead or instructor those of a member of their crews; an admin anyone's.
 export default defineEventHandler(async (event) => {

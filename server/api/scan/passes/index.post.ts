@@ -1,4 +1,5 @@
 import { ScanPassBody } from '#shared/schemas/scan'
+import { recordScanPass } from '../../../domain/scan'
 
 // The server rebuilds the pass's scene from its start and scores the samples and reports against
 // it; a score, scene or settings sent along are never read.

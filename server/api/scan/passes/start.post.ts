@@ -1,4 +1,5 @@
 import { ScanPassStartBody } from '#shared/schemas/scan'
+import { startScanPass } from '../../../domain/scan'
 
 // Starts a pass: the server draws its seed and keeps its settings; the pass is sent once to POST /api/scan/passes.
 export default defineEventHandler(async (event) => {

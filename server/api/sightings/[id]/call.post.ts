@@ -1,5 +1,6 @@
 import { CallBody } from '#shared/schemas/drill'
 import { IdParam } from '#shared/schemas/params'
+import { callSighting } from '../../../domain/watches'
 
 // One call on a sighting: graded, scheduled and stored once (a resend gets the first result).
 // Calls that arrive together share one commit (server/utils/group-commit.ts); the answer is sent

@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { requireOwnTrashedView, restoreView } from '../../../domain/decks'
 
 // Puts a removed view back from the deck's trash.
 export default defineEventHandler(async (event) => {

@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { watchPack } from '../../../domain/watches'
 
 // The offline pack of a watch: its sightings with their answers, for the trainee it was issued to.
 export default defineEventHandler(async (event) => {

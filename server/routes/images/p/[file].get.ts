@@ -1,6 +1,7 @@
 import { readFile } from 'node:fs/promises'
 import { join } from 'node:path'
 import { PictureFileParam } from '#shared/schemas/drill'
+import { pictureFileFor } from '../../../domain/watches'
 
 // A watch's teaching picture (introduction, reveal) by its opaque id, only for the trainee the
 // watch was issued to; anyone else gets 404 as for an unknown one. The address names no type.

@@ -1,4 +1,5 @@
 import { SightingImageParam } from '#shared/schemas/drill'
+import { sightingImageFile } from '../../../domain/watches'
 
 // A sighting's picture (watch or check) at its own address, for the trainee it was issued to; anyone
 // else gets the 404 of an unknown one. The address names the sighting, never the rendering.

@@ -1,6 +1,7 @@
 import { eq } from 'drizzle-orm'
 import { PersonCrewsBody } from '#shared/schemas/admin'
 import { IdParam } from '#shared/schemas/params'
+import { setPersonCrews } from '../../../../domain/admin'
 
 // An admin sets the crews of an existing person: add to a crew, move between crews, or take out.
 export default defineEventHandler(async (event) => {

@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { finishCheckAttempt } from '../../../../domain/checks'
 
 // The trainee ends a running attempt; sightings not called count as wrong.
 export default defineEventHandler(async (event) => {

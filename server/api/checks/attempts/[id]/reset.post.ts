@@ -1,4 +1,5 @@
 import { IdParam } from '#shared/schemas/params'
+import { resetCheckAttempt } from '../../../../domain/checks'
 
 // A lead of the trainee's crew lets them take the check again.
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,6 @@
 import { SignOffBody } from '#shared/schemas/checks'
 import { IdParam } from '#shared/schemas/params'
+import { signOffCheckAttempt } from '../../../../domain/checks'
 
 // A lead of the trainee's crew signs off a finished attempt, once, with an optional remark.
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,6 @@
 import { WithdrawSignOffBody } from '#shared/schemas/checks'
 import { IdParam } from '#shared/schemas/params'
+import { withdrawSignOff } from '../../../../domain/checks'
 
 // A lead of the trainee's crew withdraws a sign-off, saying why; audited with who signed it first.
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,6 @@
 import { IdParam } from '#shared/schemas/params'
 import { ScanDrillCrewsBody } from '#shared/schemas/scan'
+import { setScanDrillCrews } from '../../../../domain/scan'
 
 // Instructors assign their own drills to their own crews; admins any drill to any crew.
 export default defineEventHandler(async (event) => {

@@ -8,7 +8,7 @@ import { byTrack, calibration, firstCurve, forgettingByGap, MIN_FIT_CALLS, MIN_P
 import type { ReviewLog } from '../core/scheduling/fit'
 import type { CrewFitView, PersonFitView } from '../../shared/types/fit'
 import type { CallGrade } from '../../shared/utils/grade'
-import { fitInChild } from './fit-process'
+import { fitInChild } from '../utils/fit-process'
 
 interface Row {
   crewId: string

@@ -6,7 +6,7 @@ import { median } from '#shared/utils/statistics'
 import { placeScanContacts, scoreScanPass } from '#shared/utils/scan-scene'
 import { scanPassProblem } from '#shared/utils/scan-checks'
 import type { ScanPassSummary } from '#shared/utils/scan-scene'
-import type { Actor } from './gate'
+import type { Actor } from '../utils/gate'
 
 export interface ScanDrillView {
   id: string

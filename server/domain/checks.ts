@@ -12,13 +12,13 @@ import type {
   AttemptStatus, AttemptSummary, CheckCallRecorded, CheckInput, CheckLists, CheckPatchInput, CheckResult, CheckToTake, CheckView, CrewChecks,
 } from '../../shared/schemas/checks'
 import type { IssuedSighting, IssuedWatch } from '../../shared/types/drill'
-import { isUntilCall, maskUrlFor, sightingImageUrl, viewsWithRenderings } from './drill-plan'
-import type { ContentVariant, DeckContent, PlannedChoice } from './drill-plan'
-import type { Actor } from './gate'
-import { crewsLedOver, hasRole } from './gate'
-import { allOrNothing } from './group-commit'
-import { newCallId, newId } from './ids'
-import { loadDrillContent, watchDay } from './watch'
+import { isUntilCall, maskUrlFor, sightingImageUrl, viewsWithRenderings } from './watch-plan'
+import type { ContentVariant, DeckContent, PlannedChoice } from './watch-plan'
+import type { Actor } from '../utils/gate'
+import { crewsLedOver, hasRole } from '../utils/gate'
+import { allOrNothing } from '../utils/group-commit'
+import { newCallId, newId } from '../utils/ids'
+import { loadDrillContent, watchDay } from './watches'
 
 const fail = (statusCode: number, message: string) => createError({ statusCode, message })
 const noCheck = () => fail(404, 'No such check.')

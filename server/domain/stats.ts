@@ -17,8 +17,8 @@ import { trendVerdict } from '../../shared/utils/trend'
 import type {
   BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PairSide, PersonReport, SideBySidePair, TrendFigures,
 } from '../../shared/types/stats'
-import type { Actor } from './gate'
-import { crewsLedOver, hasRole, requireActor } from './gate'
+import type { Actor } from '../utils/gate'
+import { crewsLedOver, hasRole, requireActor } from '../utils/gate'
 
 export interface StatsFilters {
   deckId?: string

@@ -14,13 +14,13 @@ import type { CallResult, DeckWorkload, Introduction, IssuedSighting, IssuedWatc
 import {
   canPractise, drillableKeys, isUntilCall, maskUrlFor, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatchItems, reshowOrder,
   sightingImageUrl, teachingVariant, WATCH_MAX_SIGHTINGS,
-} from './drill-plan'
+} from './watch-plan'
 import { PRACTICE_SIZE } from '../core/watch/queue'
-import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from './drill-plan'
-import { allOrNothing } from './group-commit'
-import { newCallId, newId } from './ids'
+import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from './watch-plan'
+import { allOrNothing } from '../utils/group-commit'
+import { newCallId, newId } from '../utils/ids'
 import { recordCheckCall } from './checks'
-import { weightsForCall } from './fsrs-fit'
+import { weightsForCall } from './crew-fits'
 import type { CheckCallRecorded } from '../../shared/schemas/checks'
 
 const DAY_MS = 86_400_000
@@ -571,7 +571,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     windowMs: s.windowMs,
   })
   const calledTypeId = input.typed !== undefined ? typedTypeId : choice?.typeId ?? null
-  // A check's call gives no feedback and leaves the tracks alone (server/utils/checks.ts).
+  // A check's call gives no feedback and leaves the tracks alone (server/domain/checks.ts).
   if (s.kind === 'check') {
     return recordCheckCall(sqlite, {
       sightingId, userId, watchId: s.watchId, deckId: s.deckId, targetTypeId: s.targetTypeId, calledTypeId, aspect: s.aspect,

@@ -1,6 +1,6 @@
 import { eq } from 'drizzle-orm'
 import type { Me } from '#shared/types/roles'
-import type { Actor } from './gate'
+import type { Actor } from '../utils/gate'
 
 export function findUserByEmail(email: string) {
   return useDb().select().from(tables.users).where(eq(tables.users.email, email.toLowerCase())).get()

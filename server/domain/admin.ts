@@ -1,6 +1,6 @@
 // Admin lists and the crews of a person: plain SQL on the one handle.
 import type { Role } from '#shared/types/roles'
-import type { Actor } from './gate'
+import type { Actor } from '../utils/gate'
 
 // LIKE with the search's own % and _ taken literally.
 export function likePattern(q: string) {

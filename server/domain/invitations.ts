@@ -1,7 +1,7 @@
 import { and, eq, isNull } from 'drizzle-orm'
 import type { Role } from '#shared/types/roles'
 import { ROLE_LABELS } from '#shared/types/roles'
-import type { Actor } from './gate'
+import type { Actor } from '../utils/gate'
 
 export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000
 

@@ -1,3 +1,5 @@
+import { findUserByEmail } from './people'
+
 export const RESET_TTL_MS = 60 * 60 * 1000
 
 // Stores a single-use link for the account of `email`, if there is an enabled one, and mails it.

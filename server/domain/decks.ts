@@ -4,7 +4,7 @@ import { and, asc, desc, eq, gte, inArray, lt, or } from 'drizzle-orm'
 import { ASPECTS, CONDITIONS } from '#shared/utils/conditions'
 import { featuresProblem, settingsConflict } from '#shared/schemas/decks'
 import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
-import type { Actor } from './gate'
+import type { Actor } from '../utils/gate'
 
 type DeckRow = typeof tables.decks.$inferSelect
 type TypeRow = typeof tables.targetTypes.$inferSelect

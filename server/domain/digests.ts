@@ -7,9 +7,9 @@ import { dailyReminder, weeklyLeadDigest } from '../core/reports/digest'
 import type { DigestPerson } from '../core/reports/digest'
 import type { DigestRunResult } from '../../shared/types/stats'
 import type { DigestKind } from '../../shared/schemas/stats'
-import { useSqlite } from './db'
-import { newId } from './ids'
-import { appUrl, sendMail } from './mail'
+import { useSqlite } from '../utils/db'
+import { newId } from '../utils/ids'
+import { appUrl, sendMail } from '../utils/mail'
 import { loadPersonCalls, readinessOnDecks } from './stats'
 
 export interface DigestOptions {

@@ -2,7 +2,8 @@
 import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
-import { crewIdOf } from '../support/client'
+import { crewIdOf, signedIn } from '../support/client'
+import type { CrewConfusions, CrewStats } from '../../shared/types/stats'
 
 let browser: Browser
 beforeAll(async () => {
@@ -23,7 +24,10 @@ describe('the crew table (lead, desktop)', () => {
     await page.getByRole('heading', { name: 'Trainees' }).waitFor()
     const table = page.getByRole('table', { name: /Trainees of the crew/ })
     const rows = table.locator('tbody tr', { has: page.locator('th[scope=row]') })
-    await expect.poll(() => rows.count()).toBeGreaterThan(0)
+    // The page shows the server's rows (the demo crew has several trainees), one row each.
+    const api = (await (await signedIn('lead@glint.demo')).get(`/api/crews/${crewId}/stats`)).body as CrewStats
+    expect(api.rows.length).toBeGreaterThan(1)
+    await expect.poll(() => rows.count()).toBe(api.rows.length)
 
     const median = table.getByRole('columnheader', { name: /Median/ })
     await median.getByRole('button').click()
@@ -37,24 +41,34 @@ describe('the crew table (lead, desktop)', () => {
     // Filter by the first deck of the crew: the request carries it and the table stays.
     const deck = page.getByLabel('Deck')
     const options = await deck.locator('option').evaluateAll(os => os.map(o => (o as HTMLOptionElement).value).filter(Boolean))
-    if (options.length) {
-      const answered = page.waitForResponse(r => r.url().includes('/stats?') && r.url().includes(`deckId=${options[0]}`))
-      await deck.selectOption(options[0]!)
-      expect((await answered).status()).toBe(200)
-    }
-    expect(await page.getByText(/ready|not yet/).count()).toBeGreaterThan(0)
+    // The demo crew drills at least one published deck (server/seed/decks.ts).
+    expect(options).toEqual(api.decks.map(d => d.id))
+    const answered = page.waitForResponse(r => r.url().includes('/stats?') && r.url().includes(`deckId=${options[0]}`))
+    const confAnswered = page.waitForResponse(r => r.url().includes('/confusions') && r.url().includes(`deckId=${options[0]}`))
+    await deck.selectOption(options[0]!)
+    const filtered = await (await answered).json() as CrewStats
+    const conf = await (await confAnswered).json() as CrewConfusions
+    expect(filtered.filters.deckId).toBe(options[0])
+    // As many rows read "ready" as the server found ready on that deck.
+    await expect.poll(() => rows.count()).toBe(filtered.rows.length)
+    const readyCells = await rows.evaluateAll(trs => trs.map(tr => tr.querySelectorAll('td')[0]?.textContent?.trim() ?? ''))
+    expect(readyCells.filter(t => t.includes('✓')).length).toBe(filtered.rows.filter(r => r.ready).length)
     expect(await page.getByRole('link', { name: 'Download CSV' }).getAttribute('href')).toMatch(/stats\.csv/)
     await shot(page, 'stats-crew-table')
 
     const heat = page.locator('section', { has: page.locator('#conf-h') })
     await heat.scrollIntoViewIfNeeded()
-    if (options.length) expect(await heat.locator('td').count()).toBeGreaterThan(0)
+    // Each pair of the deck's target types shows the count the server sent for it.
+    expect(conf.types.length).toBeGreaterThan(1)
+    const n = conf.types.length
+    const cells = await heat.locator('tbody tr').evaluateAll((trs, n) => trs.map(tr => [...tr.querySelectorAll('td')].slice(0, n).map(td => Number(td.textContent))), n)
+    expect(cells).toEqual(conf.counts)
     await shot(page, 'stats-confusions')
 
     await rows.first().locator('th a').click()
     await page.waitForURL(/\/people\//)
     await page.getByRole('heading', { name: 'Recognition speed over time' }).waitFor()
-    await expect.poll(() => page.locator('canvas').count(), { timeout: 10_000 }).toBeGreaterThan(0)
+    await expect.poll(() => page.locator('canvas').count(), { timeout: 10_000 }).toBeGreaterThanOrEqual(1)
     expect(await page.getByText('The numbers of this chart, by day').count()).toBe(1)
     await shot(page, 'stats-person')
     await context.close()

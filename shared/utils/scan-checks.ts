@@ -10,7 +10,7 @@ import type { ScanSample } from './scan-pattern'
 
 // The phone takes a sample at most every 40 ms (design value, see useScanPass).
 export const SCAN_SAMPLES_A_SECOND = 25
-// The last sample and report may land a frame or a timer tick after the pass's length.
+// The last sample and report may land a frame or a timer tick after the pass's length (design value).
 export const SCAN_END_GRACE_MS = 1000
 // Fastest turn of the field a lookout can make, a full circle in a second (design value, generous:
 // the page moves the field by steps of at most 20°, at most one every 125 ms, about 160° a second).

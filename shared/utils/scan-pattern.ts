@@ -82,8 +82,11 @@ export interface ScanPlan {
   gaps: Gap[]
 }
 
+// Design values, no source: the height of the sky sweep and how often the zenith is searched.
 export const DEFAULT_CEILING_DEG = 25
 export const DEFAULT_ZENITH_EVERY = 3
+// The sector a lookout searches with the naked eye at a time: design value, no source (common
+// practice speaks of sweeping in overlapping sectors; 30° is our choice, set per scan drill).
 export const DEFAULT_NAKED_EYE_FIELD_DEG = 30
 export const ZENITH_DEG = 90
 

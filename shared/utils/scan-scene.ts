@@ -239,7 +239,8 @@ export interface ScanPassInput {
   reports: readonly ScanReport[]
 }
 
-// A tap may land just after the contact goes, and the field's edge is soft to the eye.
+// A tap may land just after the contact goes, and the field's edge is soft to the eye. Both graces
+// are design values, no source: half a second is about two reaction times, half a degree a thin rim.
 const TAP_GRACE_MS = 500
 const FIELD_EDGE_GRACE_DEG = 0.5
 // A tap sooner than this after a contact shows is a guess, not a sighting: responses under

@@ -39,7 +39,8 @@ describe('an admin at desktop size (issue 17, items 1 and 2)', () => {
     await page.getByRole('button', { name: 'Save crews' }).click()
     await page.getByText(`${name} moved into Skerrow Point Station.`).waitFor()
     expect(crewsOf(p.id)).toEqual([skerrow])
-    expect(await people.locator('tbody tr').first().textContent()).toContain('Skerrow Point Station')
+    // The table reloads after the notice: wait for the row to show the crew the database holds.
+    await expect.poll(() => people.locator('tbody tr').first().textContent()).toContain('Skerrow Point Station')
 
     await page.getByRole('button', { name: `Change the crews of ${name}` }).click()
     await page.getByRole('checkbox', { name: 'Skerrow Point Station' }).uncheck()

@@ -451,7 +451,7 @@ interface ResultRow {
   calledName: string | null
   correct: number | null
   latencyMs: number | null
-  grade: string | null
+  grade: CallGrade | null
 }
 
 function checkResult(sqlite: Database, attemptId: string): CheckResult {
@@ -491,7 +491,7 @@ function checkResult(sqlite: Database, attemptId: string): CheckResult {
       calledName: r.calledName,
       correct: r.correct === 1,
       latencyMs: r.latencyMs,
-      grade: (r.grade ?? 'missed') as CallGrade,
+      grade: r.grade ?? 'missed',
     })),
   }
 }

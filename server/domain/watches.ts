@@ -197,7 +197,7 @@ export function ensureTracks(sqlite: Database, userId: string, content: DeckCont
     .sort((a, b) => (order.get(`${a.targetTypeId}|${a.aspect}`) ?? 1e9) - (order.get(`${b.targetTypeId}|${b.aspect}`) ?? 1e9))
 }
 
-/** This crew's calls on the deck, as planning reads them: shown type -> called type -> count (watches and checks alike). */
+/** The wrong names this trainee's crew called in watches of the deck, as the plans of watches and checks read them: shown type -> called type -> count. */
 export function crewConfusions(sqlite: Database, userId: string, deckId: string): Map<string, Map<string, number>> {
   const out = new Map<string, Map<string, number>>()
   for (const r of statement<{ shown: string, called: string, n: number }, [string, string]>(sqlite, SQL.confusions).all(deckId, userId)) {

@@ -12,7 +12,7 @@ import type { TrackState } from '../scheduling/fsrs'
 import { CONDITION_DIFFICULTY, isCondition } from '../../../shared/utils/conditions'
 import { NEW_TRACK_MAX_EXPOSURE_MS } from '../../../shared/utils/exposure'
 
-// Longest watch: a few minutes on a phone (common practice for short daily drills, no source).
+// Longest watch: a few minutes on a phone (common practice for short daily sessions, no source).
 export const WATCH_MAX_SIGHTINGS = 30
 // A track comes back at most this many times in one watch after misses.
 export const MAX_RESHOWS_PER_TRACK = 2

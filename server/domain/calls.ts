@@ -13,7 +13,7 @@ import { inGroupCommit } from '../utils/group-commit'
 import { useSqlite } from '../utils/db'
 import { statement } from '../utils/sql'
 import { recordCheckCall } from './checks'
-import { sightingForCall, storedCallResult } from './sightings'
+import { sightingForCall } from './sightings'
 import type { CallFields } from './sightings'
 import { recordWatchCall, serverRandom, VOIDED_MESSAGE } from './watches'
 import type { WatchRandom } from './watches'
@@ -31,8 +31,7 @@ const OFFLINE_AFTER_MS = 30_000
 export function callSighting(sqlite: Database, userId: string, sightingId: string, input: CallInput, nowMs = Date.now(), random: WatchRandom = serverRandom): CallResult | CheckCallRecorded {
   const s = sightingForCall(sqlite, sightingId)
   if (!s || s.userId !== userId || !s.deckId) throw createError({ statusCode: 404, message: 'No such sighting was issued to you.' })
-  const stored = storedCallResult<CallResult | CheckCallRecorded>(sqlite, sightingId)
-  if (stored) return stored
+  if (s.result !== null) return JSON.parse(s.result) as CallResult | CheckCallRecorded
   if (s.voidedAt !== null) throw createError({ statusCode: 409, message: VOIDED_MESSAGE })
 
   const calledAt = Math.min(Math.max(input.calledAt ?? nowMs, s.issuedAt), nowMs)

@@ -53,12 +53,17 @@ export function weightsForCall(sqlite: Database, userId: string, deckId: string)
   // Prepared once per handle (server/utils/sql.ts): this runs on every call of a watch.
   const row = statement<{ crewId: string }, [string, string]>(sqlite, `SELECT m.crew_id AS crewId FROM memberships m
     JOIN deck_crews dc ON dc.crew_id = m.crew_id AND dc.deck_id = ? WHERE m.user_id = ? ORDER BY m.crew_id LIMIT 1`).get(deckId, userId)
-  if (!row) return undefined
-  let weights = adoptedCache.get(row.crewId)
+  return weightsOfCrew(sqlite, row?.crewId ?? null)
+}
+
+/** The adopted weights of a crew (undefined: the defaults; so for no crew), cached until a fit ends. */
+export function weightsOfCrew(sqlite: Database, crewId: string | null): readonly number[] | undefined {
+  if (crewId === null) return undefined
+  let weights = adoptedCache.get(crewId)
   if (weights === undefined) {
-    const fit = statement<{ w: string | null }, [string]>(sqlite, 'SELECT adopted_weights AS w FROM crew_fsrs_params WHERE crew_id = ?').get(row.crewId)
+    const fit = statement<{ w: string | null }, [string]>(sqlite, 'SELECT adopted_weights AS w FROM crew_fsrs_params WHERE crew_id = ?').get(crewId)
     weights = fit?.w ? JSON.parse(fit.w) as number[] : null
-    adoptedCache.set(row.crewId, weights)
+    adoptedCache.set(crewId, weights)
   }
   return weights ?? undefined
 }

@@ -138,14 +138,26 @@ export interface CallSightingRow {
   hesitationMs: number | null
   retention: number | null
   answerMode: string | null
+  // the answer's name and features, for the reveal
+  typeName: string
+  typeFeatures: string | null
+  // the trainee's crew the deck is assigned to (first by id), whose fitted weights schedule the call (crew-fits.ts)
+  crewId: string | null
+  // the stored answer when the sighting was called already
+  result: string | null
 }
 
 const SIGHTING_FOR_CALL = `SELECT s.id, s.user_id AS userId, s.watch_id AS watchId, s.track_id AS trackId, s.target_type_id AS targetTypeId,
   s.aspect, s.condition, s.position, s.window_ms AS windowMs, s.choices, s.answer_choice_id AS answerChoiceId,
   s.issued_at AS issuedAt, s.reshow_of AS reshowOf, s.voided_at AS voidedAt, w.kind, w.deck_id AS deckId, d.hesitation_ms AS hesitationMs,
-  d.retention, d.answer_mode AS answerMode
-  FROM sightings s JOIN watches w ON w.id = s.watch_id LEFT JOIN decks d ON d.id = w.deck_id WHERE s.id = ?`
+  d.retention, d.answer_mode AS answerMode, t.name AS typeName, t.features AS typeFeatures,
+  (SELECT m.crew_id FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id AND dc.deck_id = w.deck_id
+    WHERE m.user_id = s.user_id ORDER BY m.crew_id LIMIT 1) AS crewId,
+  (SELECT c.result FROM calls c WHERE c.sighting_id = s.id) AS result
+  FROM sightings s JOIN watches w ON w.id = s.watch_id LEFT JOIN decks d ON d.id = w.deck_id JOIN target_types t ON t.id = s.target_type_id
+  WHERE s.id = ?`
 
+/** One read for a call: the sighting, its watch's kind, its deck's settings, its answer, the trainee's crew and any stored result. */
 export function sightingForCall(sqlite: Database, sightingId: string): CallSightingRow | undefined {
   return statement<CallSightingRow, [string]>(sqlite, SIGHTING_FOR_CALL).get(sightingId)
 }

@@ -18,7 +18,7 @@ import { allOrNothing } from '../utils/group-commit'
 import { newId } from '../utils/ids'
 import { useSqlite } from '../utils/db'
 import { statement } from '../utils/sql'
-import { weightsForCall } from './crew-fits'
+import { weightsOfCrew } from './crew-fits'
 import { insertCall, insertSighting, issuedFromPlan, issuedFromRow, sightingForCall, storedCallResult, watchSightings } from './sightings'
 import type { CallFields, CallSightingRow } from './sightings'
 
@@ -464,7 +464,6 @@ export function recordWatchCall(sqlite: Database, s: CallSightingRow, choices: r
   return allOrNothing(sqlite, () => {
     const again = storedCallResult<CallResult>(sqlite, sightingId)
     if (again) return again
-    const type = statement<AnswerTypeRow, [string]>(sqlite, SQL.answerType).get(s.targetTypeId)!
     const trackRow = s.trackId ? statement<TrackRow, [string]>(sqlite, SQL.track).get(s.trackId) : undefined
     let before: TrackState | null = null
     let after: TrackState | null = null
@@ -473,7 +472,7 @@ export function recordWatchCall(sqlite: Database, s: CallSightingRow, choices: r
       const track = toPlanTrack(trackRow)
       // Calls synced out of order are applied no earlier than the track's last review.
       const reviewAt = Math.max(calledAt, track.state.lastReview ?? 0)
-      const review = reviewTrack(track.state, grade, reviewAt, { retention: s.retention ?? 0.9, weights: weightsForCall(sqlite, userId, deckId) })
+      const review = reviewTrack(track.state, grade, reviewAt, { retention: s.retention ?? 0.9, weights: weightsOfCrew(sqlite, s.crewId) })
       before = review.before
       after = review.after
       trackOut = { stage: stageOf(after, reviewAt, s.retention ?? 0.9), due: after.due }
@@ -485,8 +484,8 @@ export function recordWatchCall(sqlite: Database, s: CallSightingRow, choices: r
       anticipation: call.anticipation,
       calledChoiceId: call.choiceId,
       answer: {
-        id: type.id, choiceId: choices.length ? s.answerChoiceId : null, name: type.name, features: parseFeatures(type.features),
-        imageUrl: revealPicture(sqlite, s.watchId, type.id, s.aspect),
+        id: s.targetTypeId, choiceId: choices.length ? s.answerChoiceId : null, name: s.typeName, features: parseFeatures(s.typeFeatures),
+        imageUrl: revealPicture(sqlite, s.watchId, s.targetTypeId, s.aspect),
       },
       latencyMs: call.latencyMs,
       calledAt,
@@ -495,7 +494,7 @@ export function recordWatchCall(sqlite: Database, s: CallSightingRow, choices: r
     }
     // A wrong name: the type called, beside the right one in the reveal.
     const calledTypeId = call.calledTypeId
-    if (!correct && calledTypeId && calledTypeId !== type.id) {
+    if (!correct && calledTypeId && calledTypeId !== s.targetTypeId) {
       const other = statement<AnswerTypeRow, [string]>(sqlite, SQL.answerType).get(calledTypeId)
       if (other) {
         result.called = { name: other.name, aspect: s.aspect, features: parseFeatures(other.features), imageUrl: revealPicture(sqlite, s.watchId, other.id, s.aspect) }
@@ -620,7 +619,7 @@ export function voidSighting(userId: string, sightingId: string, nowMs = Date.no
     const s = sightingForCall(sqlite, sightingId)
     if (!s || s.userId !== userId || !s.deckId) throw notFound('No such sighting was issued to you.')
     if (s.kind !== 'watch') throw createError({ statusCode: 403, message: 'Only a sighting of a watch can be voided.' })
-    if (storedCallResult(sqlite, sightingId)) throw createError({ statusCode: 409, message: 'This sighting was already called; a called sighting cannot be voided.' })
+    if (s.result !== null) throw createError({ statusCode: 409, message: 'This sighting was already called; a called sighting cannot be voided.' })
     const row = statement<{ voidedAt: number | null, variantId: string | null }, [string]>(sqlite, SQL.voidRow).get(sightingId)!
     const voidedAt = row.voidedAt ?? nowMs
     const answerMode = s.answerMode ?? 'choices'

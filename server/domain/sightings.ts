@@ -23,7 +23,7 @@ interface SightingParams {
   trackId: string | null
   targetTypeId: string
   position: number
-  variantId: string
+  variantId: string | null
   aspect: string
   condition: string
   rangeM: number
@@ -37,8 +37,12 @@ interface SightingParams {
   issuedAt: number
 }
 
-/** Stores a planned sighting (of a watch or a check) at `position`; returns its id. */
-export function insertSighting(sqlite: Database, watchId: string, userId: string, p: PlannedSighting, position: number, nowMs: number, reshowOf: string | null = null, id = newId()): string {
+/** What a stored sighting holds of its plan (the rendering null once its view is deleted: a void's copy keeps that). */
+export type SightingToStore = Pick<PlannedSighting, 'trackId' | 'targetTypeId' | 'aspect' | 'condition' | 'rangeM' | 'binoculars'
+  | 'apparentPx' | 'exposureMs' | 'windowMs' | 'choices' | 'answerChoiceId'> & { variantId: string | null }
+
+/** The one INSERT of a sighting (a watch's, a re-show, a void's copy, a check's) at `position`; returns its id. */
+export function insertSighting(sqlite: Database, watchId: string, userId: string, p: SightingToStore, position: number, nowMs: number, reshowOf: string | null = null, id = newId()): string {
   statement<never, [SightingParams]>(sqlite, INSERT_SIGHTING).run({
     id, watchId, userId, trackId: p.trackId, targetTypeId: p.targetTypeId, position, variantId: p.variantId, aspect: p.aspect,
     condition: p.condition, rangeM: p.rangeM, binoculars: p.binoculars ? 1 : 0, apparentPx: p.apparentPx, exposureMs: p.exposureMs,

@@ -109,11 +109,8 @@ const SQL = {
   setVoided: `UPDATE sightings SET voided_at = ? WHERE id = ? AND voided_at IS NULL
     AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = sightings.id)`,
   copyOf: `SELECT id FROM sightings WHERE watch_id = ? AND id <> ? AND track_id IS ? AND variant_id IS ? AND issued_at = ?`,
-  copy: `INSERT INTO sightings (id, watch_id, user_id, track_id, target_type_id, position, variant_id, aspect, condition, range_m,
-    binoculars, apparent_px, exposure_ms, window_ms, choices, answer_choice_id, reshow_of, issued_at)
-    SELECT @id, watch_id, user_id, track_id, target_type_id, @position, variant_id, aspect, condition, range_m, binoculars,
-    apparent_px, exposure_ms, window_ms, @choices, @answerChoiceId, reshow_of, @now FROM sightings WHERE id = @from`,
-  voidRow: `SELECT voided_at AS voidedAt, variant_id AS variantId FROM sightings WHERE id = ?`,
+  voidRow: `SELECT voided_at AS voidedAt, variant_id AS variantId, range_m AS rangeM, binoculars, apparent_px AS apparentPx,
+    exposure_ms AS exposureMs, reshow_of AS reshowOf FROM sightings WHERE id = ?`,
 } as const
 
 interface DeckRow { id: string, title: string, category: string, status: string, hesitationMs: number, windowMs: number, newPerDay: number, retention: number, choiceCount: number, answerMode: string, minExposureMs: number }
@@ -608,6 +605,8 @@ export function watchPack(userId: string, watchId: string, sqlite: Database = us
 
 // ---------------------------------------------------------------- voided sightings
 
+interface VoidRow { voidedAt: number | null, variantId: string | null, rangeM: number, binoculars: number, apparentPx: number, exposureMs: number, reshowOf: string | null }
+
 export interface VoidResult { sightingId: string, voidedAt: number, appended: IssuedSighting[] }
 
 /**
@@ -620,7 +619,7 @@ export function voidSighting(userId: string, sightingId: string, nowMs = Date.no
     if (!s || s.userId !== userId || !s.deckId) throw notFound('No such sighting was issued to you.')
     if (s.kind !== 'watch') throw createError({ statusCode: 403, message: 'Only a sighting of a watch can be voided.' })
     if (s.result !== null) throw createError({ statusCode: 409, message: 'This sighting was already called; a called sighting cannot be voided.' })
-    const row = statement<{ voidedAt: number | null, variantId: string | null }, [string]>(sqlite, SQL.voidRow).get(sightingId)!
+    const row = statement<VoidRow, [string]>(sqlite, SQL.voidRow).get(sightingId)!
     const voidedAt = row.voidedAt ?? nowMs
     const answerMode = s.answerMode ?? 'choices'
     const read = (id: string) => watchSightings(sqlite, s.watchId).filter(r => r.id === id).map(r => issuedFromRow(r, answerMode))
@@ -638,8 +637,12 @@ export function voidSighting(userId: string, sightingId: string, nowMs = Date.no
     })
     const id = newId()
     const position = statement<{ p: number }, [string]>(sqlite, SQL.maxPosition).get(s.watchId)!.p + 1
-    statement<never, [{ id: string, position: number, choices: string, answerChoiceId: string, now: number, from: string }]>(sqlite, SQL.copy)
-      .run({ id, position, choices: JSON.stringify(choices), answerChoiceId: ids.get(s.answerChoiceId) ?? s.answerChoiceId, now: voidedAt, from: sightingId })
+    // The copy is the same sighting (rendering, range, exposure) under a new id, stored as any other.
+    insertSighting(sqlite, s.watchId, userId, {
+      trackId: s.trackId, targetTypeId: s.targetTypeId, variantId: row.variantId, aspect: s.aspect, condition: s.condition, rangeM: row.rangeM,
+      binoculars: !!row.binoculars, apparentPx: row.apparentPx, exposureMs: row.exposureMs, windowMs: s.windowMs, choices,
+      answerChoiceId: ids.get(s.answerChoiceId) ?? s.answerChoiceId,
+    }, position, voidedAt, row.reshowOf, id)
     return { sightingId, voidedAt, appended: read(id) }
   }).immediate()
 }

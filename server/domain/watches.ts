@@ -10,7 +10,7 @@ import type { TrackState } from '../core/scheduling/fsrs'
 import type { Rng } from '../core/watch/rng'
 import type { CallResult, DeckWorkload, Introduction, IssuedSighting, IssuedWatch, TeachingPicture, WatchPack, WatchToday } from '../../shared/types/drill'
 import {
-  canPractise, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatchItems, reshowOrder, teachingVariant, trackKeys, WATCH_MAX_SIGHTINGS,
+  canPractise, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatch, reshowOrder, teachingVariant, trackKeys, WATCH_MAX_SIGHTINGS,
 } from '../core/watch/plan'
 import { PRACTICE_SIZE } from '../core/watch/queue'
 import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from '../core/watch/plan'
@@ -357,7 +357,7 @@ function pickDeck(sqlite: Database, userId: string, deckId: string | undefined, 
 }
 
 /**
- * Today's watch for a trainee: the open one of today again, or a new one planned by planWatchItems and
+ * Today's watch for a trainee: the open one of today again, or a new one planned by planWatch and
  * stored at once (every sighting with its id, the answer kept server-side). Nothing to call: id null.
  */
 export function issueWatch(sqlite: Database, userId: string, deckId: string | undefined, nowMs = Date.now(), random: WatchRandom = serverRandom, opts: { practice?: boolean } = {}): IssuedWatch {
@@ -369,7 +369,7 @@ export function issueWatch(sqlite: Database, userId: string, deckId: string | un
     const tracks = ensureTracks(sqlite, userId, content, nowMs)
     const confusions = crewConfusions(sqlite, userId, content.deck.id)
     const input = { content, tracks, nowMs, newIntroducedToday: newIntroducedToday(sqlite, userId, content.deck.id, nowMs), confusions, ...random }
-    let plan = planWatchItems(input)
+    let plan = planWatch(input)
     let practice = false
     if (opts.practice) {
       // Practice is what the watch offers when nothing is due: sightings that are due go first.
@@ -379,7 +379,7 @@ export function issueWatch(sqlite: Database, userId: string, deckId: string | un
       if (!canPractise(tracks)) {
         throw createError({ statusCode: 409, message: 'Nothing to practise yet: a practice repeats types you have called before.' })
       }
-      plan = planWatchItems({ ...input, practice: true })
+      plan = planWatch({ ...input, practice: true })
       practice = true
     }
     if (!plan.sightings.length) {

@@ -207,19 +207,13 @@ export interface PlannedIntroduction {
 export interface PlannedWatch { sightings: PlannedSighting[], introductions: PlannedIntroduction[] }
 
 /**
- * The day's watch: the queue of buildWatchQueue (due first by retrievability, new up to the
- * deck's limit less those introduced today, no type twice in a row), each sighting planned.
+ * The day's watch: the queue of buildWatchQueue (due first by retrievability, new up to the deck's
+ * limit less those introduced today, no type twice in a row), each sighting planned, with its
+ * introductions: each new track is introduced (placeIntroductions) before its first timed sighting,
+ * beside its nearest look-alike. A practice watch (asked for when nothing is due) takes
+ * buildPracticeQueue's tracks instead and introduces nothing.
  */
-export function planWatch(input: PlanWatchInput): PlannedSighting[] {
-  return planWatchItems(input).sightings
-}
-
-/**
- * The day's watch with its introductions: each new track is introduced (placeIntroductions) before
- * its first timed sighting, beside its nearest look-alike. A practice watch (asked for when nothing is
- * due) takes buildPracticeQueue's tracks instead and introduces nothing.
- */
-export function planWatchItems(input: PlanWatchInput & { practice?: boolean }): PlannedWatch {
+export function planWatch(input: PlanWatchInput & { practice?: boolean }): PlannedWatch {
   const { content, tracks, nowMs } = input
   const keyed = new Set(trackKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
   const usable = tracks.filter(t => keyed.has(`${t.targetTypeId}|${t.aspect}`))

@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest'
 import { newTrackState } from '../../../server/core/scheduling/fsrs'
 import type { TrackState } from '../../../server/core/scheduling/fsrs'
-import { planCheckSighting, planTrackSighting, planWatchItems, trackKeys } from '../../../server/core/watch/plan'
+import { planCheckSighting, planTrackSighting, planWatch, trackKeys } from '../../../server/core/watch/plan'
 import type { DeckContent, PlanContext, PlanTrack } from '../../../server/core/watch/plan'
 import { mulberry32 } from '../../../server/core/watch/rng'
 
@@ -120,7 +120,7 @@ describe('planTrackSighting: the ladder decides when no override is given', () =
   })
 })
 
-describe('trackKeys and planWatchItems', () => {
+describe('trackKeys and planWatch', () => {
   it('keys every (type, aspect) with a rendering, broadside before head-on (introduction order: common practice)', () => {
     const keys = trackKeys(deck())
     expect(keys).toHaveLength(10)
@@ -137,7 +137,7 @@ describe('trackKeys and planWatchItems', () => {
       // four held and due, two held and not due for a week, the rest new
       state: i < 4 ? held(10, -1) : i < 6 ? held(20, 7) : newTrackState(NOW),
     }))
-    const plan = planWatchItems({ ...ctx(content, 5), tracks, nowMs: NOW, newIntroducedToday: 1 })
+    const plan = planWatch({ ...ctx(content, 5), tracks, nowMs: NOW, newIntroducedToday: 1 })
     const ids = plan.sightings.map(s => s.trackId)
     expect(new Set(ids)).toEqual(new Set(['k0', 'k1', 'k2', 'k3', ...ids.filter(id => Number(id!.slice(1)) >= 6)]))
     expect(ids.filter(id => Number(id!.slice(1)) >= 6)).toHaveLength(2)

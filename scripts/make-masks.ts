@@ -6,7 +6,7 @@ import { createRequire } from 'node:module'
 import { dirname, join } from 'node:path'
 import encode, { init } from '@jsquash/webp/encode.js'
 import { mulberry32 } from '../server/core/watch/rng'
-import { MASK_COUNT } from '../server/domain/watch-plan'
+import { MASK_COUNT } from '../server/core/watch/plan'
 
 const WIDTH = 480
 const HEIGHT = 320

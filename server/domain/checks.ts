@@ -1,24 +1,28 @@
 // Qualification checks on the database: an instructor's definition, a trainee's one attempt (a
-// watch of kind 'check' issued whole, no pack, no feedback, no track touched), the score, the
-// lead's reset and sign-off. Plain imports, like watch.ts, which calls recordCheckCall.
-import { randomBytes as cryptoRandomBytes, randomInt } from 'node:crypto'
+// watch of kind 'check' issued whole, planned by the watch's own code with the check's overrides;
+// no pack, no feedback, no track touched), the score, the lead's reset and sign-off. Plain imports,
+// like watches.ts; calls.ts hands a check's calls to recordCheckCall.
 import type { Database } from 'better-sqlite3'
 import { createError } from 'h3'
-import { makeChoiceIds, pickChoices } from '../core/watch/choices'
+import { planCheckSighting, viewsWithRenderings } from '../core/watch/plan'
+import type { DeckContent } from '../core/watch/plan'
 import { randomIndex } from '../core/watch/rng'
-import { PX_BY_RUNG, placeRange } from '../core/watch/sighting-plan'
+import { PX_BY_RUNG } from '../core/watch/sighting-plan'
 import type { CallGrade } from '../../shared/utils/grade'
 import type {
   AttemptStatus, AttemptSummary, CheckCallRecorded, CheckInput, CheckLists, CheckPatchInput, CheckResult, CheckToTake, CheckView, CrewChecks,
 } from '../../shared/schemas/checks'
-import type { IssuedSighting, IssuedWatch } from '../../shared/types/drill'
-import { isUntilCall, maskUrlFor, sightingImageUrl, viewsWithRenderings } from './watch-plan'
-import type { ContentVariant, DeckContent, PlannedChoice } from './watch-plan'
+import type { IssuedWatch } from '../../shared/types/drill'
 import type { Actor } from '../utils/gate'
 import { crewsLedOver, hasRole } from '../utils/gate'
+import { useSqlite } from '../utils/db'
 import { allOrNothing } from '../utils/group-commit'
-import { newCallId, newId } from '../utils/ids'
-import { loadDrillContent, watchDay } from './watches'
+import { newId } from '../utils/ids'
+import { statement } from '../utils/sql'
+import { insertCall, insertSighting, issuedFromPlan, storedCallResult } from './sightings'
+import type { CallFields } from './sightings'
+import { crewConfusions, loadDeckContent, serverRandom, watchDay } from './watches'
+import type { WatchRandom } from './watches'
 
 const fail = (statusCode: number, message: string) => createError({ statusCode, message })
 const noCheck = () => fail(404, 'No such check.')
@@ -28,9 +32,6 @@ export const CHECK_RETAKE_MESSAGE = 'This check is already taken; ask your lead 
 // A check shows targets at the size of the ladder's middle rung (a track held 1 to 7 days):
 // smaller than a new track's, larger than a well-held one's (product rule for the ladder).
 const CHECK_PX_RUNG = 2
-
-export interface CheckRandom { rng: () => number, randomBytes: (size: number) => Uint8Array }
-const serverRandom: CheckRandom = { rng: () => randomInt(0, 2 ** 32) / 2 ** 32, randomBytes: n => cryptoRandomBytes(n) }
 
 interface CheckRow {
   id: string
@@ -106,11 +107,11 @@ function withdrawnOf(r: AttemptRow) {
 }
 
 function checkRow(sqlite: Database, id: string) {
-  return sqlite.prepare(`${CHECK_SELECT} WHERE c.id = ?`).get(id) as CheckRow | undefined
+  return statement<CheckRow>(sqlite, `${CHECK_SELECT} WHERE c.id = ?`).get(id)
 }
 
 function attemptRow(sqlite: Database, id: string) {
-  return sqlite.prepare(`${ATTEMPT_SELECT} WHERE a.id = ?`).get(id) as AttemptRow | undefined
+  return statement<AttemptRow>(sqlite, `${ATTEMPT_SELECT} WHERE a.id = ?`).get(id)
 }
 
 const ownsCheck = (actor: Actor, c: CheckRow) => c.createdBy === actor.id || c.deckOwner === actor.id
@@ -118,7 +119,7 @@ const ownsCheck = (actor: Actor, c: CheckRow) => c.createdBy === actor.id || c.d
 // Is the check's deck assigned to one of the actor's crews (and published, for trainees and leads)?
 function assignedToActor(sqlite: Database, actor: Actor, deckId: string) {
   if (!actor.crewIds.length) return false
-  return !!sqlite.prepare(`SELECT 1 FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id WHERE dc.deck_id = ? AND d.status = 'published'
+  return !!statement(sqlite, `SELECT 1 FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id WHERE dc.deck_id = ? AND d.status = 'published'
     AND dc.crew_id IN (SELECT value FROM json_each(?)) LIMIT 1`).get(deckId, JSON.stringify(actor.crewIds))
 }
 
@@ -127,7 +128,7 @@ function assignedToActor(sqlite: Database, actor: Actor, deckId: string) {
 function leadsAttempt(sqlite: Database, actor: Actor, a: AttemptRow) {
   const led = crewsLedOver(sqlite, actor, a.userId)
   if (!led.length) return false
-  return !!sqlite.prepare(`SELECT 1 FROM checks c JOIN deck_crews dc ON dc.deck_id = c.deck_id
+  return !!statement(sqlite, `SELECT 1 FROM checks c JOIN deck_crews dc ON dc.deck_id = c.deck_id
     WHERE c.id = ? AND dc.crew_id IN (SELECT value FROM json_each(?)) LIMIT 1`).get(a.checkId, JSON.stringify(led))
 }
 
@@ -136,16 +137,12 @@ function leadsAttempt(sqlite: Database, actor: Actor, a: AttemptRow) {
 /** Which (type, aspect, condition) combinations the deck can show under the check's settings. */
 function checkCombos(content: DeckContent, aspects: readonly string[], conditions: readonly string[], only: readonly string[] | null = null) {
   const types = new Set(content.types.map(t => t.id).filter(id => !only || only.includes(id)))
-  const out = new Map<string, { targetTypeId: string, aspect: string, condition: string, variants: ContentVariant[][] }>()
+  const out = new Map<string, { targetTypeId: string, aspect: string, condition: string }>()
   for (const v of viewsWithRenderings(content)) {
     if (!types.has(v.targetTypeId) || !aspects.includes(v.aspect)) continue
     for (const condition of conditions) {
-      const variants = v.variants.filter(x => x.condition === condition)
-      if (!variants.length) continue
       const key = `${v.targetTypeId}|${v.aspect}|${condition}`
-      const combo = out.get(key) ?? { targetTypeId: v.targetTypeId, aspect: v.aspect, condition, variants: [] }
-      combo.variants.push(variants)
-      out.set(key, combo)
+      if (!out.has(key) && v.variants.some(x => x.condition === condition)) out.set(key, { targetTypeId: v.targetTypeId, aspect: v.aspect, condition })
     }
   }
   return [...out.values()]
@@ -169,12 +166,12 @@ function assertDrawable(content: DeckContent, aspects: readonly string[], condit
 }
 
 function requireOwnDeckForCheck(sqlite: Database, actor: Actor, deckId: string): DeckContent {
-  const deck = sqlite.prepare('SELECT owner_id AS ownerId, status FROM decks WHERE id = ?').get(deckId) as { ownerId: string, status: string } | undefined
+  const deck = statement<{ ownerId: string, status: string }>(sqlite, 'SELECT owner_id AS ownerId, status FROM decks WHERE id = ?').get(deckId)
   if (!deck) throw fail(404, 'deckId: No such deck.')
   if (deck.ownerId !== actor.id) throw fail(403, 'Only the deck\'s own instructor defines checks on it.')
   if (deck.status === 'archived') throw fail(409, 'This deck is archived; checks are defined on live decks.')
   if (deck.status === 'draft') throw fail(409, 'deckId: This deck is a draft; publish it before defining a check on it.')
-  return loadDrillContent(sqlite, deckId)!
+  return loadDeckContent(sqlite, deckId)!
 }
 
 // A due date is the end of that UTC day; one already past is refused.
@@ -186,20 +183,20 @@ function dueAtOf(dueDate: string | null | undefined, nowMs: number): number | nu
   return dueAt
 }
 
-export function createCheck(sqlite: Database, actor: Actor, input: CheckInput, nowMs = Date.now()): CheckView {
+export function createCheck(actor: Actor, input: CheckInput, nowMs = Date.now(), sqlite: Database = useSqlite()): CheckView {
   const content = requireOwnDeckForCheck(sqlite, actor, input.deckId)
   const only = input.targetTypeIds ? [...new Set(input.targetTypeIds)] : null
   assertDrawable(content, input.aspects, input.conditions, only)
   const dueAt = dueAtOf(input.dueDate, nowMs)
   const id = newId()
-  sqlite.prepare(`INSERT INTO checks (id, deck_id, title, sighting_count, exposure_ms, conditions, aspects, pass_mark, created_by, due_at, target_type_ids,
+  statement(sqlite, `INSERT INTO checks (id, deck_id, title, sighting_count, exposure_ms, conditions, aspects, pass_mark, created_by, due_at, target_type_ids,
     created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(id, input.deckId, input.title, input.sightingCount, input.exposureMs,
     JSON.stringify(input.conditions), JSON.stringify(input.aspects), input.passMark, actor.id, dueAt, only && JSON.stringify(only), nowMs, nowMs)
   return toView(checkRow(sqlite, id)!)
 }
 
 /** The check as its viewer may see it: its instructor, an admin, or a trainee or lead of a crew its deck is assigned to. */
-export function readCheck(sqlite: Database, actor: Actor, id: string): CheckView {
+export function readCheck(actor: Actor, id: string, sqlite: Database = useSqlite()): CheckView {
   const c = checkRow(sqlite, id)
   if (!c) throw noCheck()
   const visible = hasRole(actor, 'admin') || ownsCheck(actor, c)
@@ -226,58 +223,58 @@ function requireEditableCheck(sqlite: Database, actor: Actor, id: string, dueDat
   return c
 }
 
-export function updateCheck(sqlite: Database, actor: Actor, id: string, patch: CheckPatchInput, nowMs = Date.now()): CheckView {
+export function updateCheck(actor: Actor, id: string, patch: CheckPatchInput, nowMs = Date.now(), sqlite: Database = useSqlite()): CheckView {
   return sqlite.transaction(() => {
     const dueDateOnly = Object.keys(patch).every(k => k === 'dueDate')
     const c = requireEditableCheck(sqlite, actor, id, dueDateOnly)
     const aspects = patch.aspects ?? JSON.parse(c.aspects) as string[]
     const conditions = patch.conditions ?? JSON.parse(c.conditions) as string[]
     const only = c.targetTypeIds === null ? null : JSON.parse(c.targetTypeIds) as string[]
-    if (patch.aspects || patch.conditions) assertDrawable(loadDrillContent(sqlite, c.deckId)!, aspects, conditions, only)
+    if (patch.aspects || patch.conditions) assertDrawable(loadDeckContent(sqlite, c.deckId)!, aspects, conditions, only)
     const dueAt = patch.dueDate === undefined ? c.dueAt : dueAtOf(patch.dueDate, nowMs)
-    sqlite.prepare(`UPDATE checks SET title = ?, sighting_count = ?, exposure_ms = ?, conditions = ?, aspects = ?, pass_mark = ?, due_at = ?, updated_at = ?
+    statement(sqlite, `UPDATE checks SET title = ?, sighting_count = ?, exposure_ms = ?, conditions = ?, aspects = ?, pass_mark = ?, due_at = ?, updated_at = ?
       WHERE id = ?`).run(patch.title ?? c.title, patch.sightingCount ?? c.sightingCount, patch.exposureMs ?? c.exposureMs,
       JSON.stringify(conditions), JSON.stringify(aspects), patch.passMark ?? c.passMark, dueAt, nowMs, id)
     return toView(checkRow(sqlite, id)!)
   }).immediate()
 }
 
-export function deleteCheck(sqlite: Database, actor: Actor, id: string) {
+export function deleteCheck(actor: Actor, id: string, sqlite: Database = useSqlite()) {
   return sqlite.transaction(() => {
     const c = requireEditableCheck(sqlite, actor, id, true)
     if (c.attempts > 0) throw fail(409, 'This check has been taken; retire it instead, so its results are kept.')
-    sqlite.prepare('DELETE FROM checks WHERE id = ?').run(id)
+    statement(sqlite, 'DELETE FROM checks WHERE id = ?').run(id)
     return toView(c)
   }).immediate()
 }
 
 /** Retires a taken check: nobody can start it again; its attempts and results stay readable. */
-export function retireCheck(sqlite: Database, actor: Actor, id: string, nowMs = Date.now()): CheckView {
+export function retireCheck(actor: Actor, id: string, nowMs = Date.now(), sqlite: Database = useSqlite()): CheckView {
   return sqlite.transaction(() => {
     const c = requireOwnCheck(sqlite, actor, id)
     if (c.retiredAt !== null) throw fail(409, 'This check is already retired.')
-    sqlite.prepare('UPDATE checks SET retired_at = ?, updated_at = ? WHERE id = ?').run(nowMs, nowMs, id)
+    statement(sqlite, 'UPDATE checks SET retired_at = ?, updated_at = ? WHERE id = ?').run(nowMs, nowMs, id)
     return toView(checkRow(sqlite, id)!)
   }).immediate()
 }
 
 /** The lists of /checks, one section per role the actor holds. */
-export function listChecks(sqlite: Database, actor: Actor): CheckLists {
+export function listChecks(actor: Actor, sqlite: Database = useSqlite()): CheckLists {
   const out: CheckLists = { defined: [], toTake: [], crews: [] }
   if (hasRole(actor, 'admin')) {
-    out.defined = (sqlite.prepare(`${CHECK_SELECT} ORDER BY c.created_at DESC`).all() as CheckRow[]).map(toView)
+    out.defined = statement<CheckRow>(sqlite, `${CHECK_SELECT} ORDER BY c.created_at DESC`).all().map(toView)
   }
   else if (hasRole(actor, 'instructor')) {
-    out.defined = (sqlite.prepare(`${CHECK_SELECT} WHERE c.created_by = ? OR d.owner_id = ? ORDER BY c.created_at DESC`)
-      .all(actor.id, actor.id) as CheckRow[]).map(toView)
+    out.defined = statement<CheckRow>(sqlite, `${CHECK_SELECT} WHERE c.created_by = ? OR d.owner_id = ? ORDER BY c.created_at DESC`)
+      .all(actor.id, actor.id).map(toView)
   }
   const crews = JSON.stringify(actor.crewIds)
-  const assigned = sqlite.prepare(`${CHECK_SELECT} WHERE d.status = 'published'
+  const assigned = statement<CheckRow>(sqlite, `${CHECK_SELECT} WHERE d.status = 'published'
     AND c.deck_id IN (SELECT deck_id FROM deck_crews WHERE crew_id IN (SELECT value FROM json_each(?))) ORDER BY c.created_at DESC`)
   if (hasRole(actor, 'trainee') && actor.crewIds.length) {
-    const newest = sqlite.prepare(`${ATTEMPT_SELECT} WHERE a.check_id = ? AND a.user_id = ? ORDER BY a.started_at DESC LIMIT 1`)
-    out.toTake = (assigned.all(crews) as CheckRow[]).map((c): CheckToTake => {
-      const a = newest.get(c.id, actor.id) as AttemptRow | undefined
+    const newest = statement<AttemptRow>(sqlite, `${ATTEMPT_SELECT} WHERE a.check_id = ? AND a.user_id = ? ORDER BY a.started_at DESC LIMIT 1`)
+    out.toTake = assigned.all(crews).map((c): CheckToTake => {
+      const a = newest.get(c.id, actor.id)
       return {
         ...toView(c),
         status: a?.status ?? 'none',
@@ -290,23 +287,23 @@ export function listChecks(sqlite: Database, actor: Actor): CheckLists {
       .filter(c => c.retiredAt === null || c.status !== 'none')
   }
   if (hasRole(actor, 'lead') && actor.crewIds.length) {
-    const crewRows = sqlite.prepare('SELECT id, name FROM crews WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name').all(crews) as { id: string, name: string }[]
-    const ofCrew = sqlite.prepare(`${CHECK_SELECT} WHERE d.status = 'published'
+    const crewRows = statement<{ id: string, name: string }>(sqlite, 'SELECT id, name FROM crews WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name').all(crews)
+    const ofCrew = statement<CheckRow>(sqlite, `${CHECK_SELECT} WHERE d.status = 'published'
       AND c.deck_id IN (SELECT deck_id FROM deck_crews WHERE crew_id = ?) ORDER BY c.created_at DESC`)
-    const attempts = sqlite.prepare(`${ATTEMPT_SELECT} WHERE a.check_id = ?
+    const attempts = statement<AttemptRow>(sqlite, `${ATTEMPT_SELECT} WHERE a.check_id = ?
       AND a.user_id IN (SELECT user_id FROM memberships WHERE crew_id = ?) ORDER BY a.started_at DESC`)
     // The crew's trainees with no attempt that counts (running or finished): reset ones must take it again.
-    const notTaken = sqlite.prepare(`SELECT u.id AS userId, u.name FROM memberships m JOIN users u ON u.id = m.user_id
+    const notTaken = statement<{ userId: string, name: string }>(sqlite, `SELECT u.id AS userId, u.name FROM memberships m JOIN users u ON u.id = m.user_id
       WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee')
       AND NOT EXISTS (SELECT 1 FROM check_attempts a WHERE a.check_id = ? AND a.user_id = u.id AND a.status != 'reset')
       ORDER BY u.name COLLATE NOCASE`)
     out.crews = crewRows.map((crew): CrewChecks => ({
       crewId: crew.id,
       crewName: crew.name,
-      checks: (ofCrew.all(crew.id) as CheckRow[]).map(c => ({
+      checks: ofCrew.all(crew.id).map(c => ({
         ...toView(c),
-        attemptsOfCrew: (attempts.all(c.id, crew.id) as AttemptRow[]).map(toSummary),
-        notTaken: notTaken.all(crew.id, c.id) as { userId: string, name: string }[],
+        attemptsOfCrew: attempts.all(c.id, crew.id).map(toSummary),
+        notTaken: notTaken.all(crew.id, c.id),
       })),
     }))
   }
@@ -322,19 +319,6 @@ export interface IssuedCheck extends IssuedWatch {
   title: string
   sightingCount: number
   exposureMs: number
-}
-
-function crewConfusions(sqlite: Database, userId: string, deckId: string) {
-  const out = new Map<string, Map<string, number>>()
-  const rows = sqlite.prepare(`SELECT c.target_type_id AS shown, c.called_type_id AS called, count(*) AS n FROM calls c
-    WHERE c.deck_id = ? AND c.kind = 'watch' AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
-    AND c.user_id IN (SELECT m2.user_id FROM memberships m1 JOIN memberships m2 ON m2.crew_id = m1.crew_id WHERE m1.user_id = ?)
-    GROUP BY 1, 2`).all(deckId, userId) as { shown: string, called: string, n: number }[]
-  for (const r of rows) {
-    if (!out.has(r.shown)) out.set(r.shown, new Map())
-    out.get(r.shown)!.set(r.called, r.n)
-  }
-  return out
 }
 
 /**
@@ -358,74 +342,34 @@ export function drawCheckOrder<T extends { targetTypeId: string }>(combos: reado
 }
 
 /** A trainee's attempt: 409 if one was taken and not reset; else a watch of kind 'check' issued whole. */
-export function startCheckAttempt(sqlite: Database, actor: Actor, checkId: string, nowMs = Date.now(), random: CheckRandom = serverRandom): IssuedCheck {
+export function startCheckAttempt(actor: Actor, checkId: string, nowMs = Date.now(), random: WatchRandom = serverRandom, sqlite: Database = useSqlite()): IssuedCheck {
   return sqlite.transaction(() => {
     const c = checkRow(sqlite, checkId)
     if (!c || !assignedToActor(sqlite, actor, c.deckId)) throw noCheck()
     if (c.retiredAt !== null) throw fail(409, 'This check is retired; your instructor no longer sets it.')
-    const taken = sqlite.prepare(`SELECT 1 FROM check_attempts WHERE check_id = ? AND user_id = ? AND status <> 'reset'`).get(checkId, actor.id)
+    const taken = statement(sqlite, `SELECT 1 FROM check_attempts WHERE check_id = ? AND user_id = ? AND status <> 'reset'`).get(checkId, actor.id)
     if (taken) throw fail(409, CHECK_RETAKE_MESSAGE)
-    const content = loadDrillContent(sqlite, c.deckId)!
+    const content = loadDeckContent(sqlite, c.deckId)!
     const only = c.targetTypeIds === null ? null : JSON.parse(c.targetTypeIds) as string[]
     const combos = checkCombos(content, JSON.parse(c.aspects) as string[], JSON.parse(c.conditions) as string[], only)
     if (new Set(combos.map(x => x.targetTypeId)).size < 2) {
       throw fail(409, 'The deck no longer has views for this check\'s aspects and conditions; ask your instructor.')
     }
     const deck = content.deck
-    const windowMs = Math.max(deck.windowMs, c.exposureMs)
-    const confusions = crewConfusions(sqlite, actor.id, deck.id)
     const watchId = newId()
     const day = watchDay(nowMs)
-    sqlite.prepare(`INSERT INTO watches (id, user_id, deck_id, kind, check_id, day, status, created_at, updated_at)
+    statement(sqlite, `INSERT INTO watches (id, user_id, deck_id, kind, check_id, day, status, created_at, updated_at)
       VALUES (?, ?, ?, 'check', ?, ?, 'open', ?, ?)`).run(watchId, actor.id, deck.id, checkId, day, nowMs, nowMs)
-    const insert = sqlite.prepare(`INSERT INTO sightings (id, watch_id, user_id, track_id, target_type_id, position, variant_id, aspect,
-      condition, range_m, binoculars, apparent_px, exposure_ms, window_ms, choices, answer_choice_id, reshow_of, issued_at)
-      VALUES (?, ?, ?, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, NULL, ?)`)
-    const [lo, hi] = PX_BY_RUNG[CHECK_PX_RUNG]!
-    const sightings: IssuedSighting[] = drawCheckOrder(combos, c.sightingCount, random.rng).map((combo, position) => {
-      const type = content.types.find(t => t.id === combo.targetTypeId)!
-      const renderings = combo.variants[randomIndex(random.rng, combo.variants.length)]!
-      // The phone-sized rendering: the narrowest at least 320 px wide.
-      const variant = [...renderings].sort((a, b) => a.width - b.width).find(x => x.width >= 320) ?? renderings[0]!
-      const placed = placeRange(type.sizeM, type.category, lo + random.rng() * (hi - lo))
-      let choices: PlannedChoice[] = []
-      let answerChoiceId: string
-      if (deck.answerMode === 'typed') {
-        answerChoiceId = makeChoiceIds(1, random.randomBytes)[0]!
-      }
-      else {
-        const picked = pickChoices({
-          correct: type, candidates: content.types, lookAlikeIds: content.lookAlikes.get(type.id),
-          crewConfusions: confusions.get(type.id), count: deck.choiceCount, rng: random.rng,
-        })
-        const ids = makeChoiceIds(picked.length, random.randomBytes)
-        choices = picked.map((p, i) => ({ id: ids[i]!, label: p.label, typeId: p.typeId }))
-        answerChoiceId = choices.find(x => x.typeId === type.id)!.id
-      }
-      const id = newId()
-      insert.run(id, watchId, actor.id, type.id, position, variant.id, combo.aspect, combo.condition, placed.rangeM, placed.binoculars ? 1 : 0,
-        placed.apparentPx, c.exposureMs, windowMs, JSON.stringify(choices), answerChoiceId, nowMs)
-      return {
-        id,
-        position,
-        imageUrl: sightingImageUrl(id),
-        maskUrl: maskUrlFor(id),
-        choices: choices.map(x => ({ id: x.id, label: x.label })),
-        answerMode: deck.answerMode === 'typed' ? 'typed' : 'choices',
-        exposureMs: c.exposureMs,
-        untilCall: isUntilCall(c.exposureMs),
-        windowMs,
-        apparentPx: Math.round(placed.apparentPx),
-        rangeM: Math.round(placed.rangeM),
-        binoculars: placed.binoculars,
-        width: variant.width,
-        height: variant.height,
-        called: false,
-        reshow: false,
-      }
+    // Planned by the watch's code (planCheckSighting), with the check's condition, exposure and size band.
+    const ctx = { content, confusions: crewConfusions(sqlite, actor.id, deck.id), ...random }
+    const pxBand = PX_BY_RUNG[CHECK_PX_RUNG]!
+    const sightings = drawCheckOrder(combos, c.sightingCount, random.rng).map((combo, position) => {
+      const plan = planCheckSighting(combo, { condition: combo.condition, exposureMs: c.exposureMs, pxBand }, ctx)
+      const id = insertSighting(sqlite, watchId, actor.id, plan, position, nowMs)
+      return issuedFromPlan(id, position, plan, deck.answerMode, false)
     })
     const attemptId = newId()
-    sqlite.prepare(`INSERT INTO check_attempts (id, check_id, user_id, watch_id, status, started_at) VALUES (?, ?, ?, ?, 'running', ?)`)
+    statement(sqlite, `INSERT INTO check_attempts (id, check_id, user_id, watch_id, status, started_at) VALUES (?, ?, ?, ?, 'running', ?)`)
       .run(attemptId, checkId, actor.id, watchId, nowMs)
     return {
       id: watchId, deckId: deck.id, deckTitle: deck.title, day, hesitationMs: deck.hesitationMs, sightings, nextDueAt: null,
@@ -434,46 +378,21 @@ export function startCheckAttempt(sqlite: Database, actor: Actor, checkId: strin
   }).immediate()
 }
 
-export interface CheckCallFields {
-  sightingId: string
-  userId: string
-  watchId: string
-  deckId: string
-  targetTypeId: string
-  calledTypeId: string | null
-  aspect: string
-  condition: string
-  choiceId: string | null
-  typed: string | null
-  correct: boolean
-  grade: CallGrade
-  anticipation: boolean
-  latencyMs: number | null
-  framesShown: number
-  frameIntervalMs: number
-  calledAt: number
-  offline: boolean
-}
-
 /**
- * A call on a check's sighting: stored once with no track (trackId null), answered with no
- * feedback; the last call of the attempt finishes it. A finished or reset attempt takes no call.
+ * A graded call on a check's sighting (calls.ts reads, refuses and grades it): stored once with no
+ * track, answered with no feedback; the last call of the attempt finishes it. A finished or reset
+ * attempt takes no call.
  */
-export function recordCheckCall(sqlite: Database, f: CheckCallFields, nowMs = Date.now()): CheckCallRecorded {
+export function recordCheckCall(sqlite: Database, watchId: string, call: CallFields, nowMs: number): CheckCallRecorded {
   return allOrNothing(sqlite, () => {
-    const again = sqlite.prepare('SELECT result FROM calls WHERE sighting_id = ?').get(f.sightingId) as { result: string } | undefined
-    if (again) return JSON.parse(again.result) as CheckCallRecorded
-    const attempt = sqlite.prepare('SELECT id, status FROM check_attempts WHERE watch_id = ?').get(f.watchId) as { id: string, status: string } | undefined
+    const again = storedCallResult<CheckCallRecorded>(sqlite, call.sightingId)
+    if (again) return again
+    const attempt = statement<{ id: string, status: string }, [string]>(sqlite, 'SELECT id, status FROM check_attempts WHERE watch_id = ?').get(watchId)
     if (!attempt || attempt.status !== 'running') throw fail(409, 'This check attempt is over; its sightings take no more calls.')
-    const result: CheckCallRecorded = { recorded: true, sightingId: f.sightingId }
-    sqlite.prepare(`INSERT INTO calls (id, sighting_id, user_id, deck_id, track_id, target_type_id, called_type_id, aspect, condition,
-      choice_id, typed, correct, grade, anticipation, latency_ms, frames_shown, frame_interval_ms, called_at, received_at, offline,
-      kind, before, after, result) VALUES (?, ?, ?, ?, NULL, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'check', NULL, NULL, ?)
-      ON CONFLICT (sighting_id) DO NOTHING`).run(newCallId(), f.sightingId, f.userId, f.deckId, f.targetTypeId, f.calledTypeId, f.aspect,
-      f.condition, f.choiceId, f.typed, f.correct ? 1 : 0, f.grade, f.anticipation ? 1 : 0, f.latencyMs, f.framesShown, f.frameIntervalMs,
-      f.calledAt, nowMs, f.offline ? 1 : 0, JSON.stringify(result))
-    const left = (sqlite.prepare(`SELECT count(*) AS n FROM sightings s WHERE s.watch_id = ?
-      AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id)`).get(f.watchId) as { n: number }).n
+    const result: CheckCallRecorded = { recorded: true, sightingId: call.sightingId }
+    insertCall(sqlite, { ...call, trackId: null }, { before: null, after: null, result: JSON.stringify(result) }, nowMs)
+    const left = statement<{ n: number }, [string]>(sqlite, `SELECT count(*) AS n FROM sightings s WHERE s.watch_id = ?
+      AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id)`).get(watchId)!.n
     if (left === 0) finishAttemptRow(sqlite, attempt.id, nowMs)
     return result
   })
@@ -487,18 +406,18 @@ export function checkScore(right: number, count: number, passMark: number) {
 }
 
 function finishAttemptRow(sqlite: Database, attemptId: string, nowMs: number) {
-  const a = sqlite.prepare(`SELECT a.watch_id AS watchId, c.pass_mark AS passMark FROM check_attempts a JOIN checks c ON c.id = a.check_id
-    WHERE a.id = ?`).get(attemptId) as { watchId: string, passMark: number }
-  const counts = sqlite.prepare(`SELECT count(*) AS n, coalesce(sum(c.correct), 0) AS right FROM sightings s
-    LEFT JOIN calls c ON c.sighting_id = s.id WHERE s.watch_id = ?`).get(a.watchId) as { n: number, right: number }
+  const a = statement<{ watchId: string, passMark: number }>(sqlite, `SELECT a.watch_id AS watchId, c.pass_mark AS passMark FROM check_attempts a
+    JOIN checks c ON c.id = a.check_id WHERE a.id = ?`).get(attemptId)!
+  const counts = statement<{ n: number, right: number }>(sqlite, `SELECT count(*) AS n, coalesce(sum(c.correct), 0) AS right FROM sightings s
+    LEFT JOIN calls c ON c.sighting_id = s.id WHERE s.watch_id = ?`).get(a.watchId)!
   const { score, passed } = checkScore(counts.right, counts.n, a.passMark)
-  sqlite.prepare(`UPDATE check_attempts SET status = 'finished', score = ?, passed = ?, finished_at = ? WHERE id = ? AND status = 'running'`)
+  statement(sqlite, `UPDATE check_attempts SET status = 'finished', score = ?, passed = ?, finished_at = ? WHERE id = ? AND status = 'running'`)
     .run(score, passed ? 1 : 0, nowMs, attemptId)
-  sqlite.prepare(`UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`).run(nowMs, nowMs, a.watchId)
+  statement(sqlite, `UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`).run(nowMs, nowMs, a.watchId)
 }
 
 /** The trainee ends a running attempt early: the sightings not called count as wrong. */
-export function finishCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now()): CheckResult {
+export function finishCheckAttempt(actor: Actor, attemptId: string, nowMs = Date.now(), sqlite: Database = useSqlite()): CheckResult {
   sqlite.transaction(() => {
     const a = attemptRow(sqlite, attemptId)
     if (!a || a.userId !== actor.id) throw noAttempt()
@@ -511,7 +430,7 @@ export function finishCheckAttempt(sqlite: Database, actor: Actor, attemptId: st
 // ---------------------------------------------------------------- results, reset, sign-off
 
 /** Who may read a result: the trainee once it is finished, a lead of the crew it belongs to, the check's instructor, an admin. */
-export function requireResultAccess(sqlite: Database, actor: Actor, attemptId: string) {
+function requireResultAccess(sqlite: Database, actor: Actor, attemptId: string) {
   const a = attemptRow(sqlite, attemptId)
   if (!a) throw noAttempt()
   if (hasRole(actor, 'admin') || leadsAttempt(sqlite, actor, a)) return a
@@ -532,20 +451,20 @@ interface ResultRow {
   calledName: string | null
   correct: number | null
   latencyMs: number | null
-  grade: string | null
+  grade: CallGrade | null
 }
 
-export function checkResult(sqlite: Database, attemptId: string): CheckResult {
+function checkResult(sqlite: Database, attemptId: string): CheckResult {
   const a = attemptRow(sqlite, attemptId)!
   const c = checkRow(sqlite, a.checkId)!
   const rows = a.watchId
-    ? sqlite.prepare(`SELECT s.position, t.name AS targetTypeName, s.aspect, s.condition, ct.name AS calledName, c.correct, c.latency_ms AS latencyMs,
+    ? statement<ResultRow>(sqlite, `SELECT s.position, t.name AS targetTypeName, s.aspect, s.condition, ct.name AS calledName, c.correct, c.latency_ms AS latencyMs,
       c.grade FROM sightings s JOIN target_types t ON t.id = s.target_type_id LEFT JOIN calls c ON c.sighting_id = s.id
-      LEFT JOIN target_types ct ON ct.id = c.called_type_id WHERE s.watch_id = ? ORDER BY s.position`).all(a.watchId) as ResultRow[]
+      LEFT JOIN target_types ct ON ct.id = c.called_type_id WHERE s.watch_id = ? ORDER BY s.position`).all(a.watchId)
     : []
-  const signer = a.signedOffBy ? sqlite.prepare('SELECT name FROM users WHERE id = ?').get(a.signedOffBy) as { name: string } | undefined : undefined
-  const crews = (sqlite.prepare(`SELECT c.name FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`)
-    .all(a.userId) as { name: string }[]).map(r => r.name)
+  const signer = a.signedOffBy ? statement<{ name: string }>(sqlite, 'SELECT name FROM users WHERE id = ?').get(a.signedOffBy) : undefined
+  const crews = statement<{ name: string }>(sqlite, `SELECT c.name FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`)
+    .all(a.userId).map(r => r.name)
   return {
     attemptId: a.id,
     checkId: c.id,
@@ -572,9 +491,15 @@ export function checkResult(sqlite: Database, attemptId: string): CheckResult {
       calledName: r.calledName,
       correct: r.correct === 1,
       latencyMs: r.latencyMs,
-      grade: (r.grade ?? 'missed') as CallGrade,
+      grade: r.grade ?? 'missed',
     })),
   }
+}
+
+/** A check result for whoever may read it (requireResultAccess). */
+export function readCheckResult(actor: Actor, attemptId: string, sqlite: Database = useSqlite()): CheckResult {
+  requireResultAccess(sqlite, actor, attemptId)
+  return checkResult(sqlite, attemptId)
 }
 
 // A lead of a crew the trainee is in and the check is assigned to; never for one's own attempt.
@@ -587,34 +512,34 @@ function requireLeadOf(sqlite: Database, actor: Actor, attemptId: string): Attem
 }
 
 /** The lead lets the trainee take the check again: the attempt reads 'reset', its watch is closed. */
-export function resetCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now()): AttemptSummary {
+export function resetCheckAttempt(actor: Actor, attemptId: string, nowMs = Date.now(), sqlite: Database = useSqlite()): AttemptSummary {
   return sqlite.transaction(() => {
     const a = requireLeadOf(sqlite, actor, attemptId)
     if (a.status === 'reset') throw fail(409, 'This attempt is already reset.')
     if (a.signedOffAt) throw fail(409, 'This attempt is signed off; a signed-off check cannot be reset.')
-    sqlite.prepare(`UPDATE check_attempts SET status = 'reset' WHERE id = ?`).run(attemptId)
-    if (a.watchId) sqlite.prepare(`UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`).run(nowMs, nowMs, a.watchId)
+    statement(sqlite, `UPDATE check_attempts SET status = 'reset' WHERE id = ?`).run(attemptId)
+    if (a.watchId) statement(sqlite, `UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`).run(nowMs, nowMs, a.watchId)
     return toSummary(attemptRow(sqlite, attemptId)!)
   }).immediate()
 }
 
 /** The lead signs off a finished attempt, once, with an optional remark. */
-export function signOffCheckAttempt(sqlite: Database, actor: Actor, attemptId: string, nowMs = Date.now(), remark: string | null = null): AttemptSummary {
+export function signOffCheckAttempt(actor: Actor, attemptId: string, nowMs = Date.now(), remark: string | null = null, sqlite: Database = useSqlite()): AttemptSummary {
   return sqlite.transaction(() => {
     const a = requireLeadOf(sqlite, actor, attemptId)
     if (a.status !== 'finished') throw fail(409, 'Only a finished attempt can be signed off.')
     if (a.signedOffAt) throw fail(409, 'This attempt is already signed off.')
-    sqlite.prepare('UPDATE check_attempts SET signed_off_by = ?, signed_off_at = ?, sign_off_remark = ? WHERE id = ?').run(actor.id, nowMs, remark || null, attemptId)
+    statement(sqlite, 'UPDATE check_attempts SET signed_off_by = ?, signed_off_at = ?, sign_off_remark = ? WHERE id = ?').run(actor.id, nowMs, remark || null, attemptId)
     return toSummary(attemptRow(sqlite, attemptId)!)
   }).immediate()
 }
 
 /** A lead withdraws a sign-off with a reason; the attempt can then be signed off again or reset. */
-export function withdrawSignOff(sqlite: Database, actor: Actor, attemptId: string, reason: string, nowMs = Date.now()): { before: AttemptSummary, after: AttemptSummary } {
+export function withdrawSignOff(actor: Actor, attemptId: string, reason: string, nowMs = Date.now(), sqlite: Database = useSqlite()): { before: AttemptSummary, after: AttemptSummary } {
   return sqlite.transaction(() => {
     const a = requireLeadOf(sqlite, actor, attemptId)
     if (!a.signedOffAt) throw fail(409, 'This attempt is not signed off, so there is nothing to withdraw.')
-    sqlite.prepare(`UPDATE check_attempts SET signed_off_by = NULL, signed_off_at = NULL, sign_off_remark = NULL,
+    statement(sqlite, `UPDATE check_attempts SET signed_off_by = NULL, signed_off_at = NULL, sign_off_remark = NULL,
       withdrawn_by = ?, withdrawn_at = ?, withdraw_reason = ? WHERE id = ?`).run(actor.id, nowMs, reason, attemptId)
     return { before: toSummary(a), after: toSummary(attemptRow(sqlite, attemptId)!) }
   }).immediate()

@@ -9,6 +9,7 @@ import type { ReviewLog } from '../core/scheduling/fit'
 import type { CrewFitView, PersonFitView } from '../../shared/types/fit'
 import type { CallGrade } from '../../shared/utils/grade'
 import { fitInChild } from '../utils/fit-process'
+import { statement } from '../utils/sql'
 
 interface Row {
   crewId: string
@@ -49,14 +50,20 @@ const adoptedCache = new Map<string, readonly number[] | null>()
 
 /** The adopted weights for a trainee's call on a deck: those of the trainee's crew the deck is assigned to (first by id). */
 export function weightsForCall(sqlite: Database, userId: string, deckId: string): readonly number[] | undefined {
-  const row = sqlite.prepare(`SELECT m.crew_id AS crewId FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id AND dc.deck_id = ?
-    WHERE m.user_id = ? ORDER BY m.crew_id LIMIT 1`).get(deckId, userId) as { crewId: string } | undefined
-  if (!row) return undefined
-  let weights = adoptedCache.get(row.crewId)
+  // Prepared once per handle (server/utils/sql.ts): this runs on every call of a watch.
+  const row = statement<{ crewId: string }, [string, string]>(sqlite, `SELECT m.crew_id AS crewId FROM memberships m
+    JOIN deck_crews dc ON dc.crew_id = m.crew_id AND dc.deck_id = ? WHERE m.user_id = ? ORDER BY m.crew_id LIMIT 1`).get(deckId, userId)
+  return weightsOfCrew(sqlite, row?.crewId ?? null)
+}
+
+/** The adopted weights of a crew (undefined: the defaults; so for no crew), cached until a fit ends. */
+export function weightsOfCrew(sqlite: Database, crewId: string | null): readonly number[] | undefined {
+  if (crewId === null) return undefined
+  let weights = adoptedCache.get(crewId)
   if (weights === undefined) {
-    const fit = sqlite.prepare('SELECT adopted_weights AS w FROM crew_fsrs_params WHERE crew_id = ?').get(row.crewId) as { w: string | null } | undefined
+    const fit = statement<{ w: string | null }, [string]>(sqlite, 'SELECT adopted_weights AS w FROM crew_fsrs_params WHERE crew_id = ?').get(crewId)
     weights = fit?.w ? JSON.parse(fit.w) as number[] : null
-    adoptedCache.set(row.crewId, weights)
+    adoptedCache.set(crewId, weights)
   }
   return weights ?? undefined
 }

@@ -3,37 +3,33 @@
 // that the demo history seed runs this same code over simulated days.
 // A watch day is the UTC date of issue (YYYY-MM-DD): one open watch per trainee, deck and day.
 import { randomBytes as cryptoRandomBytes, randomInt } from 'node:crypto'
-import type { Database, Statement } from 'better-sqlite3'
+import type { Database } from 'better-sqlite3'
 import { createError } from 'h3'
 import { newTrackState, reviewTrack, stageOf } from '../core/scheduling/fsrs'
 import type { TrackState } from '../core/scheduling/fsrs'
 import type { Rng } from '../core/watch/rng'
-import { gradeAnswer } from '../../shared/utils/call'
-import type { CallInput } from '../../shared/schemas/drill'
 import type { CallResult, DeckWorkload, Introduction, IssuedSighting, IssuedWatch, TeachingPicture, WatchPack, WatchToday } from '../../shared/types/drill'
 import {
-  canPractise, drillableKeys, isUntilCall, maskUrlFor, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatchItems, reshowOrder,
-  sightingImageUrl, teachingVariant, WATCH_MAX_SIGHTINGS,
-} from './watch-plan'
+  canPractise, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatch, reshowOrder, teachingVariant, trackKeys, WATCH_MAX_SIGHTINGS,
+} from '../core/watch/plan'
 import { PRACTICE_SIZE } from '../core/watch/queue'
-import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from './watch-plan'
+import type { ContentVariant, ContentView, DeckContent, PlannedChoice, PlannedIntroduction, PlannedSighting, PlanTrack } from '../core/watch/plan'
 import { allOrNothing } from '../utils/group-commit'
-import { newCallId, newId } from '../utils/ids'
-import { recordCheckCall } from './checks'
-import { weightsForCall } from './crew-fits'
-import type { CheckCallRecorded } from '../../shared/schemas/checks'
+import { newId } from '../utils/ids'
+import { useSqlite } from '../utils/db'
+import { statement } from '../utils/sql'
+import { weightsOfCrew } from './crew-fits'
+import { insertCall, insertSighting, issuedFromPlan, issuedFromRow, sightingForCall, storedCallResult, watchSightings } from './sightings'
+import type { CallFields, CallSightingRow } from './sightings'
 
 const DAY_MS = 86_400_000
-// An offline call may be applied at its own time up to this long after the sighting was issued.
-export const CALL_LATE_LIMIT_MS = 36 * 3_600_000
 // A voided sighting (screen hidden while it showed) takes no call; its copy later in the watch does.
 export const VOIDED_MESSAGE = 'This sighting was voided (the screen was hidden while it showed), so this call is not counted; it is shown again later in the watch.'
-// A call made this long before it reached the server counts as made offline.
-const OFFLINE_AFTER_MS = 30_000
 
-export interface DrillRandom { rng: Rng, randomBytes: (size: number) => Uint8Array }
+/** The random sources a watch or a check is planned with: the server's, or a seeded one (the demo history, tests). */
+export interface WatchRandom { rng: Rng, randomBytes: (size: number) => Uint8Array }
 
-const serverRandom: DrillRandom = { rng: () => randomInt(0, 2 ** 32) / 2 ** 32, randomBytes: n => cryptoRandomBytes(n) }
+export const serverRandom: WatchRandom = { rng: () => randomInt(0, 2 ** 32) / 2 ** 32, randomBytes: n => cryptoRandomBytes(n) }
 
 export function watchDay(nowMs: number) {
   return new Date(nowMs).toISOString().slice(0, 10)
@@ -45,7 +41,8 @@ function dayStart(nowMs: number) {
 
 const notFound = (message: string) => createError({ statusCode: 404, message })
 
-// ---------------------------------------------------------------- prepared statements
+// ---------------------------------------------------------------- statements
+// Raw SQL through server/utils/sql.ts's statement(): the watch and the calls path are the hot ones.
 
 const SQL = {
   deck: `SELECT id, title, category, status, hesitation_ms AS hesitationMs, window_ms AS windowMs, new_per_day AS newPerDay,
@@ -74,38 +71,18 @@ const SQL = {
     last_review = @lastReview, updated_at = @now WHERE id = @id`,
   newToday: `SELECT count(DISTINCT track_id) AS n FROM calls WHERE user_id = ? AND deck_id = ? AND called_at >= ?
     AND json_extract(before, '$.reps') = 0`,
+  // The one crew-confusions query of the watch and the check: wrong names called in watches by the trainee's crew-mates.
   confusions: `SELECT c.target_type_id AS shown, c.called_type_id AS called, count(*) AS n FROM calls c
     WHERE c.deck_id = ? AND c.kind = 'watch' AND c.correct = 0 AND c.called_type_id IS NOT NULL AND c.called_type_id <> c.target_type_id
     AND c.user_id IN (SELECT m2.user_id FROM memberships m1 JOIN memberships m2 ON m2.crew_id = m1.crew_id WHERE m1.user_id = ?)
     GROUP BY 1, 2`,
   openWatches: `SELECT id, day FROM watches WHERE user_id = ? AND deck_id = ? AND kind = 'watch' AND status = 'open' ORDER BY created_at DESC`,
   closeWatch: `UPDATE watches SET status = 'closed', closed_at = ?, updated_at = ? WHERE id = ? AND status = 'open'`,
-  insertWatch: `INSERT INTO watches (id, user_id, deck_id, kind, day, status, created_at, updated_at) VALUES (?, ?, ?, 'watch', ?, 'open', ?, ?)`,
+  insertWatch: `INSERT INTO watches (id, user_id, deck_id, kind, day, status, practice, created_at, updated_at) VALUES (?, ?, ?, 'watch', ?, 'open', ?, ?, ?)`,
   watch: `SELECT w.id, w.user_id AS userId, w.deck_id AS deckId, w.kind, w.day, d.title, d.hesitation_ms AS hesitationMs,
     d.answer_mode AS answerMode FROM watches w LEFT JOIN decks d ON d.id = w.deck_id WHERE w.id = ?`,
-  insertSighting: `INSERT INTO sightings (id, watch_id, user_id, track_id, target_type_id, position, variant_id, aspect, condition,
-    range_m, binoculars, apparent_px, exposure_ms, window_ms, choices, answer_choice_id, reshow_of, issued_at)
-    VALUES (@id, @watchId, @userId, @trackId, @targetTypeId, @position, @variantId, @aspect, @condition, @rangeM, @binoculars,
-    @apparentPx, @exposureMs, @windowMs, @choices, @answerChoiceId, @reshowOf, @issuedAt)`,
-  watchSightings: `SELECT s.id, s.position, s.track_id AS trackId, s.target_type_id AS targetTypeId, s.exposure_ms AS exposureMs,
-    s.window_ms AS windowMs, s.apparent_px AS apparentPx, s.range_m AS rangeM, s.binoculars, s.choices,
-    s.answer_choice_id AS answerChoiceId, s.reshow_of AS reshowOf, x.file, x.width, x.height,
-    (SELECT count(*) FROM calls c WHERE c.sighting_id = s.id) + (s.voided_at IS NOT NULL) AS called
-    FROM sightings s JOIN variants x ON x.id = s.variant_id WHERE s.watch_id = ? ORDER BY s.position, s.issued_at`,
-  sightingForCall: `SELECT s.id, s.user_id AS userId, s.watch_id AS watchId, s.track_id AS trackId, s.target_type_id AS targetTypeId,
-    s.aspect, s.condition, s.position, s.window_ms AS windowMs, s.choices, s.answer_choice_id AS answerChoiceId,
-    s.issued_at AS issuedAt, s.reshow_of AS reshowOf, s.voided_at AS voidedAt, w.kind, w.deck_id AS deckId, d.hesitation_ms AS hesitationMs,
-    d.retention, d.answer_mode AS answerMode
-    FROM sightings s JOIN watches w ON w.id = s.watch_id LEFT JOIN decks d ON d.id = w.deck_id WHERE s.id = ?`,
-  callResult: `SELECT result FROM calls WHERE sighting_id = ?`,
   answerType: `SELECT id, name, features FROM target_types WHERE id = ?`,
   deckNames: `SELECT id, name FROM target_types WHERE deck_id = ?`,
-  insertCall: `INSERT INTO calls (id, sighting_id, user_id, deck_id, track_id, target_type_id, called_type_id, aspect, condition,
-    choice_id, typed, correct, grade, anticipation, latency_ms, frames_shown, frame_interval_ms, called_at, received_at,
-    offline, before, after, result)
-    VALUES (@id, @sightingId, @userId, @deckId, @trackId, @targetTypeId, @calledTypeId, @aspect, @condition, @choiceId, @typed,
-    @correct, @grade, @anticipation, @latencyMs, @framesShown, @frameIntervalMs, @calledAt, @receivedAt, @offline, @before,
-    @after, @result) ON CONFLICT (sighting_id) DO NOTHING`,
   uncalled: `SELECT s.id, s.target_type_id AS typeId, s.position FROM sightings s WHERE s.watch_id = ? AND s.id <> ?
     AND s.voided_at IS NULL AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY s.position, s.issued_at`,
   anyUncalled: `SELECT 1 FROM sightings s WHERE s.watch_id = ? AND s.id <> ? AND s.voided_at IS NULL
@@ -129,38 +106,35 @@ const SQL = {
     FROM introductions i JOIN sightings s ON s.id = i.before_sighting_id
     WHERE i.watch_id = ? AND s.voided_at IS NULL AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = s.id) ORDER BY i.ord`,
   watchFlags: `SELECT practice FROM watches WHERE id = ?`,
+  setVoided: `UPDATE sightings SET voided_at = ? WHERE id = ? AND voided_at IS NULL
+    AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = sightings.id)`,
+  copyOf: `SELECT id FROM sightings WHERE watch_id = ? AND id <> ? AND track_id IS ? AND variant_id IS ? AND issued_at = ?`,
+  voidRow: `SELECT voided_at AS voidedAt, variant_id AS variantId, range_m AS rangeM, binoculars, apparent_px AS apparentPx,
+    exposure_ms AS exposureMs, reshow_of AS reshowOf FROM sightings WHERE id = ?`,
 } as const
 
-type StatementName = keyof typeof SQL
-const prepared = new WeakMap<Database, Map<StatementName, Statement>>()
-
-function stmt(sqlite: Database, name: StatementName): Statement {
-  let cache = prepared.get(sqlite)
-  if (!cache) {
-    cache = new Map()
-    prepared.set(sqlite, cache)
-  }
-  let s = cache.get(name)
-  if (!s) {
-    s = sqlite.prepare(SQL[name])
-    cache.set(name, s)
-  }
-  return s
-}
+interface DeckRow { id: string, title: string, category: string, status: string, hesitationMs: number, windowMs: number, newPerDay: number, retention: number, choiceCount: number, answerMode: string, minExposureMs: number }
+interface TypeRow { id: string, name: string, category: string, sizeM: number, features: string | null }
+type VariantRow = ContentVariant & { viewId: string, targetTypeId: string, aspect: string }
+type TrackRow = TrackState & { id: string, targetTypeId: string, aspect: string }
+type TrackParams = TrackState & { id: string, now: number }
+interface AnswerTypeRow { id: string, name: string, features: string | null }
+interface WatchRow { id: string, userId: string, deckId: string | null, kind: string, day: string, title: string, hesitationMs: number, answerMode: string }
+interface WatchPictureRow { id: string, typeId: string, aspect: string, name: string, features: string | null }
+interface IntroductionRow { id: string, beforeSightingId: string, pictureId: string, lookAlikePictureId: string | null }
 
 // ---------------------------------------------------------------- deck content and tracks
 
-interface DeckRow { id: string, title: string, category: string, status: string, hesitationMs: number, windowMs: number, newPerDay: number, retention: number, choiceCount: number, answerMode: string, minExposureMs: number }
-
 /** A deck's settings, types and look-alikes, with every rendered view (or only those of one type and aspect). */
-export function loadDrillContent(sqlite: Database, deckId: string, only?: { targetTypeId: string, aspect: string }): DeckContent | null {
-  const deck = stmt(sqlite, 'deck').get(deckId) as DeckRow | undefined
+export function loadDeckContent(sqlite: Database, deckId: string, only?: { targetTypeId: string, aspect: string }): DeckContent | null {
+  const deck = statement<DeckRow, [string]>(sqlite, SQL.deck).get(deckId)
   if (!deck) return null
-  const types = (stmt(sqlite, 'types').all(deckId) as { id: string, name: string, category: string, sizeM: number, features: string }[])
-    .map(t => ({ ...t, features: parseFeatures(t.features) }))
+  const types = statement<TypeRow, [string]>(sqlite, SQL.types).all(deckId).map(t => ({ ...t, features: parseFeatures(t.features) }))
   const views = new Map<string, ContentView>()
-  const rows = only ? stmt(sqlite, 'variantsOf').all(only.targetTypeId, only.aspect) : stmt(sqlite, 'variants').all(deckId)
-  for (const r of rows as (ContentVariant & { viewId: string, targetTypeId: string, aspect: string })[]) {
+  const rows = only
+    ? statement<VariantRow, [string, string]>(sqlite, SQL.variantsOf).all(only.targetTypeId, only.aspect)
+    : statement<VariantRow, [string]>(sqlite, SQL.variants).all(deckId)
+  for (const r of rows) {
     let v = views.get(r.viewId)
     if (!v) {
       v = { id: r.viewId, targetTypeId: r.targetTypeId, aspect: r.aspect, variants: [] }
@@ -174,7 +148,7 @@ export function loadDrillContent(sqlite: Database, deckId: string, only?: { targ
     lookAlikes.get(a)!.add(b)
   }
   // Look-alikes work both ways: if A is mistaken for B, B is mistaken for A.
-  for (const l of stmt(sqlite, 'lookAlikes').all(deckId) as { typeId: string, otherId: string }[]) {
+  for (const l of statement<{ typeId: string, otherId: string }, [string]>(sqlite, SQL.lookAlikes).all(deckId)) {
     link(l.typeId, l.otherId)
     link(l.otherId, l.typeId)
   }
@@ -192,15 +166,13 @@ function parseFeatures(text: string | null): Record<string, string> {
   return {}
 }
 
-type TrackRow = TrackState & { id: string, targetTypeId: string, aspect: string }
-
 function toPlanTrack(r: TrackRow): PlanTrack {
   const { id, targetTypeId, aspect, ...state } = r
   return { id, targetTypeId, aspect, state }
 }
 
 function readTracks(sqlite: Database, userId: string, deckId: string): PlanTrack[] {
-  return (stmt(sqlite, 'tracks').all(userId, deckId) as TrackRow[]).map(toPlanTrack)
+  return statement<TrackRow, [string, string]>(sqlite, SQL.tracks).all(userId, deckId).map(toPlanTrack)
 }
 
 /** Creates the missing tracks (one per target type x aspect with a rendered view); returns them all. */
@@ -208,23 +180,24 @@ export function ensureTracks(sqlite: Database, userId: string, content: DeckCont
   const existing = readTracks(sqlite, userId, content.deck.id)
   const have = new Set(existing.map(t => `${t.targetTypeId}|${t.aspect}`))
   const fresh = newTrackState(nowMs)
+  const insert = statement<never, [TrackParams & { userId: string, deckId: string, targetTypeId: string, aspect: string }]>(sqlite, SQL.insertTrack)
   let added = false
-  for (const k of drillableKeys(content)) {
+  for (const k of trackKeys(content)) {
     if (have.has(`${k.targetTypeId}|${k.aspect}`)) continue
-    stmt(sqlite, 'insertTrack').run({ id: newId(), userId, deckId: content.deck.id, ...k, ...fresh, now: nowMs })
+    insert.run({ id: newId(), userId, deckId: content.deck.id, ...k, ...fresh, now: nowMs })
     added = true
   }
   if (!added) return existing
-  // New tracks in the order of drillableKeys (the order they are introduced in).
-  const order = new Map(drillableKeys(content).map((k, i) => [`${k.targetTypeId}|${k.aspect}`, i]))
+  // New tracks in the order of trackKeys (the order they are introduced in).
+  const order = new Map(trackKeys(content).map((k, i) => [`${k.targetTypeId}|${k.aspect}`, i]))
   return readTracks(sqlite, userId, content.deck.id)
     .sort((a, b) => (order.get(`${a.targetTypeId}|${a.aspect}`) ?? 1e9) - (order.get(`${b.targetTypeId}|${b.aspect}`) ?? 1e9))
 }
 
-function confusionsFor(sqlite: Database, userId: string, deckId: string) {
+/** The wrong names this trainee's crew called in watches of the deck, as the plans of watches and checks read them: shown type -> called type -> count. */
+export function crewConfusions(sqlite: Database, userId: string, deckId: string): Map<string, Map<string, number>> {
   const out = new Map<string, Map<string, number>>()
-  const rows = stmt(sqlite, 'confusions').all(deckId, userId)
-  for (const r of rows as { shown: string, called: string, n: number }[]) {
+  for (const r of statement<{ shown: string, called: string, n: number }, [string, string]>(sqlite, SQL.confusions).all(deckId, userId)) {
     if (!out.has(r.shown)) out.set(r.shown, new Map())
     out.get(r.shown)!.set(r.called, r.n)
   }
@@ -232,79 +205,18 @@ function confusionsFor(sqlite: Database, userId: string, deckId: string) {
 }
 
 function assignedDecks(sqlite: Database, userId: string) {
-  return stmt(sqlite, 'assigned').all(userId) as { id: string, title: string }[]
+  return statement<{ id: string, title: string }, [string]>(sqlite, SQL.assigned).all(userId)
 }
 
 function newIntroducedToday(sqlite: Database, userId: string, deckId: string, nowMs: number) {
-  return (stmt(sqlite, 'newToday').get(userId, deckId, dayStart(nowMs)) as { n: number }).n
+  return statement<{ n: number }, [string, string, number]>(sqlite, SQL.newToday).get(userId, deckId, dayStart(nowMs))!.n
 }
 
 // ---------------------------------------------------------------- issuing
 
-interface StoredSightingRow {
-  id: string
-  position: number
-  trackId: string | null
-  targetTypeId: string
-  exposureMs: number
-  windowMs: number
-  apparentPx: number
-  rangeM: number
-  binoculars: number
-  choices: string
-  answerChoiceId: string
-  reshowOf: string | null
-  file: string
-  width: number
-  height: number
-  called: number
-}
-
-function publicChoices(text: string): { id: string, label: string }[] {
-  return (JSON.parse(text) as PlannedChoice[]).map(c => ({ id: c.id, label: c.label }))
-}
-
-function issuedFromRow(r: StoredSightingRow, answerMode: string): IssuedSighting {
-  return {
-    id: r.id,
-    position: r.position,
-    imageUrl: sightingImageUrl(r.id),
-    maskUrl: maskUrlFor(r.id),
-    choices: publicChoices(r.choices),
-    answerMode: answerMode === 'typed' ? 'typed' : 'choices',
-    exposureMs: r.exposureMs,
-    untilCall: isUntilCall(r.exposureMs),
-    windowMs: r.windowMs,
-    apparentPx: Math.round(r.apparentPx),
-    rangeM: Math.round(r.rangeM),
-    binoculars: !!r.binoculars,
-    width: r.width,
-    height: r.height,
-    called: r.called > 0,
-    reshow: r.reshowOf !== null,
-  }
-}
-
-function issuedFromPlan(id: string, position: number, p: PlannedSighting, answerMode: string, reshow: boolean): IssuedSighting {
-  return issuedFromRow({
-    id, position, trackId: p.trackId, targetTypeId: p.targetTypeId, exposureMs: p.exposureMs, windowMs: p.windowMs,
-    apparentPx: p.apparentPx, rangeM: p.rangeM, binoculars: p.binoculars ? 1 : 0, choices: JSON.stringify(p.choices),
-    answerChoiceId: p.answerChoiceId, reshowOf: reshow ? 'x' : null, file: p.file, width: p.width, height: p.height, called: 0,
-  }, answerMode)
-}
-
-function insertPlanned(sqlite: Database, watchId: string, userId: string, p: PlannedSighting, position: number, nowMs: number, reshowOf: string | null, id = newId()) {
-  stmt(sqlite, 'insertSighting').run({
-    id, watchId, userId, trackId: p.trackId, targetTypeId: p.targetTypeId, position, variantId: p.variantId, aspect: p.aspect,
-    condition: p.condition, rangeM: p.rangeM, binoculars: p.binoculars ? 1 : 0, apparentPx: p.apparentPx, exposureMs: p.exposureMs,
-    windowMs: p.windowMs, choices: JSON.stringify(p.choices), answerChoiceId: p.answerChoiceId, reshowOf, issuedAt: nowMs,
-  })
-  return id
-}
-
 function storedWatch(sqlite: Database, watchId: string, content: DeckContent, day: string): IssuedWatch {
-  const rows = stmt(sqlite, 'watchSightings').all(watchId) as StoredSightingRow[]
-  const flags = stmt(sqlite, 'watchFlags').get(watchId) as { practice: number } | undefined
+  const rows = watchSightings(sqlite, watchId)
+  const flags = statement<{ practice: number }, [string]>(sqlite, SQL.watchFlags).get(watchId)
   return {
     id: watchId,
     deckId: content.deck.id,
@@ -329,9 +241,23 @@ const pictureUrl = (id: string) => `/images/p/${id}.webp`
 function ensurePicture(sqlite: Database, watchId: string, userId: string, content: DeckContent, typeId: string, aspect: string): { id: string, aspect: string } | null {
   const v = teachingVariant(content, typeId, aspect)
   if (!v) return null
-  stmt(sqlite, 'insertPicture').run(newId(), watchId, userId, typeId, v.aspect, v.variant.id)
-  const row = stmt(sqlite, 'pictureOf').get(watchId, typeId, v.aspect) as { id: string }
+  statement<never, [string, string, string, string, string, string]>(sqlite, SQL.insertPicture).run(newId(), watchId, userId, typeId, v.aspect, v.variant.id)
+  const row = statement<{ id: string }, [string, string, string]>(sqlite, SQL.pictureOf).get(watchId, typeId, v.aspect)!
   return { id: row.id, aspect: v.aspect }
+}
+
+interface IntroductionParams {
+  id: string
+  watchId: string
+  userId: string
+  trackId: string
+  beforeSightingId: string
+  ord: number
+  targetTypeId: string
+  aspect: string
+  pictureId: string
+  lookAlikeTypeId: string | null
+  lookAlikePictureId: string | null
 }
 
 /**
@@ -348,7 +274,7 @@ function storeTeaching(sqlite: Database, watchId: string, userId: string, conten
     const picture = ensurePicture(sqlite, watchId, userId, content, intro.targetTypeId, intro.aspect)
     if (!picture) return
     const look = intro.lookAlikeTypeId ? ensurePicture(sqlite, watchId, userId, content, intro.lookAlikeTypeId, intro.aspect) : null
-    stmt(sqlite, 'insertIntroduction').run({
+    statement<never, [IntroductionParams]>(sqlite, SQL.insertIntroduction).run({
       id: newId(), watchId, userId, trackId: intro.trackId, beforeSightingId: sightingIds[intro.beforeIndex]!, ord,
       targetTypeId: intro.targetTypeId, aspect: picture.aspect, pictureId: picture.id,
       lookAlikeTypeId: look ? intro.lookAlikeTypeId : null, lookAlikePictureId: look?.id ?? null,
@@ -356,10 +282,8 @@ function storeTeaching(sqlite: Database, watchId: string, userId: string, conten
   })
 }
 
-interface WatchPictureRow { id: string, typeId: string, aspect: string, name: string, features: string }
-
 function watchPictures(sqlite: Database, watchId: string) {
-  const rows = stmt(sqlite, 'watchPictures').all(watchId) as WatchPictureRow[]
+  const rows = statement<WatchPictureRow, [string]>(sqlite, SQL.watchPictures).all(watchId)
   const byId = new Map<string, TeachingPicture & { typeId: string }>()
   const byKey = new Map<string, TeachingPicture & { typeId: string }>()
   for (const r of rows) {
@@ -372,7 +296,7 @@ function watchPictures(sqlite: Database, watchId: string) {
 
 // The introductions still to come: those before a sighting not yet called or voided.
 function introductionsOf(sqlite: Database, watchId: string): Introduction[] {
-  const rows = stmt(sqlite, 'watchIntroductions').all(watchId) as { id: string, beforeSightingId: string, pictureId: string, lookAlikePictureId: string | null }[]
+  const rows = statement<IntroductionRow, [string]>(sqlite, SQL.watchIntroductions).all(watchId)
   if (!rows.length) return []
   const { byId } = watchPictures(sqlite, watchId)
   const strip = (p: TeachingPicture & { typeId: string }): TeachingPicture => ({ name: p.name, aspect: p.aspect, features: p.features, imageUrl: p.imageUrl })
@@ -385,26 +309,30 @@ function introductionsOf(sqlite: Database, watchId: string): Introduction[] {
 }
 
 /** The file behind a watch picture, for the trainee it was issued to only (else null: answered as unknown). */
-export function pictureFileFor(sqlite: Database, userId: string, pictureId: string): string | null {
-  return (stmt(sqlite, 'pictureFile').get(pictureId, userId) as { file: string } | undefined)?.file ?? null
+export function pictureFileFor(userId: string, pictureId: string, sqlite: Database = useSqlite()): string | null {
+  return statement<{ file: string }, [string, string]>(sqlite, SQL.pictureFile).get(pictureId, userId)?.file ?? null
 }
 
 // The picture of a type at an aspect in a watch, as a reveal shows it.
 function revealPicture(sqlite: Database, watchId: string, typeId: string, aspect: string): string | null {
-  const row = stmt(sqlite, 'revealPicture').get(watchId, typeId, aspect) as { id: string } | undefined
+  const row = statement<{ id: string }, [string, string, string]>(sqlite, SQL.revealPicture).get(watchId, typeId, aspect)
   return row ? pictureUrl(row.id) : null
 }
 
 function closeWatch(sqlite: Database, watchId: string, nowMs: number) {
-  stmt(sqlite, 'closeWatch').run(nowMs, nowMs, watchId)
+  statement<never, [number, number, string]>(sqlite, SQL.closeWatch).run(nowMs, nowMs, watchId)
+}
+
+function openWatchesOf(sqlite: Database, userId: string, deckId: string) {
+  return statement<{ id: string, day: string }, [string, string]>(sqlite, SQL.openWatches).all(userId, deckId)
 }
 
 // Today's open watch of a deck, if any; open watches of earlier days, or with every sighting called, are closed.
 function openWatchToday(sqlite: Database, userId: string, deckId: string, nowMs: number): string | null {
   const today = watchDay(nowMs)
   let found: string | null = null
-  for (const w of stmt(sqlite, 'openWatches').all(userId, deckId) as { id: string, day: string }[]) {
-    const left = (stmt(sqlite, 'watchSightings').all(w.id) as StoredSightingRow[]).filter(s => !s.called).length
+  for (const w of openWatchesOf(sqlite, userId, deckId)) {
+    const left = watchSightings(sqlite, w.id).filter(s => !s.called).length
     if (w.day === today && left > 0 && !found) found = w.id
     else closeWatch(sqlite, w.id, nowMs)
   }
@@ -415,12 +343,12 @@ function pickDeck(sqlite: Database, userId: string, deckId: string | undefined, 
   const decks = assignedDecks(sqlite, userId)
   if (deckId) {
     if (!decks.some(d => d.id === deckId)) throw notFound('No such deck among the decks assigned to your crew.')
-    return loadDrillContent(sqlite, deckId)!
+    return loadDeckContent(sqlite, deckId)!
   }
   if (!decks.length) throw notFound('No published deck is assigned to your crew yet. Ask your instructor.')
   let first: DeckContent | null = null
   for (const d of decks) {
-    const content = loadDrillContent(sqlite, d.id)!
+    const content = loadDeckContent(sqlite, d.id)!
     first ??= content
     const w = workloadOf(sqlite, userId, content, nowMs)
     if (w.openLeft > 0 || w.due > 0 || w.new > 0) return content
@@ -430,18 +358,18 @@ function pickDeck(sqlite: Database, userId: string, deckId: string | undefined, 
 
 /**
  * Today's watch for a trainee: the open one of today again, or a new one planned by planWatch and
- * stored at once (every sighting with its id, the answer kept server-side). Nothing to drill: id null.
+ * stored at once (every sighting with its id, the answer kept server-side). Nothing to call: id null.
  */
-export function issueWatch(sqlite: Database, userId: string, deckId: string | undefined, nowMs = Date.now(), random: DrillRandom = serverRandom, opts: { practice?: boolean } = {}): IssuedWatch {
+export function issueWatch(sqlite: Database, userId: string, deckId: string | undefined, nowMs = Date.now(), random: WatchRandom = serverRandom, opts: { practice?: boolean } = {}): IssuedWatch {
   return sqlite.transaction(() => {
     const content = pickDeck(sqlite, userId, deckId, nowMs)
     const day = watchDay(nowMs)
     const open = openWatchToday(sqlite, userId, content.deck.id, nowMs)
     if (open) return storedWatch(sqlite, open, content, day)
     const tracks = ensureTracks(sqlite, userId, content, nowMs)
-    const confusions = confusionsFor(sqlite, userId, content.deck.id)
+    const confusions = crewConfusions(sqlite, userId, content.deck.id)
     const input = { content, tracks, nowMs, newIntroducedToday: newIntroducedToday(sqlite, userId, content.deck.id, nowMs), confusions, ...random }
-    let plan = planWatchItems(input)
+    let plan = planWatch(input)
     let practice = false
     if (opts.practice) {
       // Practice is what the watch offers when nothing is due: sightings that are due go first.
@@ -451,7 +379,7 @@ export function issueWatch(sqlite: Database, userId: string, deckId: string | un
       if (!canPractise(tracks)) {
         throw createError({ statusCode: 409, message: 'Nothing to practise yet: a practice repeats types you have called before.' })
       }
-      plan = planWatchItems({ ...input, practice: true })
+      plan = planWatch({ ...input, practice: true })
       practice = true
     }
     if (!plan.sightings.length) {
@@ -462,22 +390,27 @@ export function issueWatch(sqlite: Database, userId: string, deckId: string | un
       }
     }
     const watchId = newId()
-    stmt(sqlite, 'insertWatch').run(watchId, userId, content.deck.id, day, nowMs, nowMs)
-    if (practice) sqlite.prepare('UPDATE watches SET practice = 1 WHERE id = ?').run(watchId)
-    const ids = plan.sightings.map((p, i) => insertPlanned(sqlite, watchId, userId, p, i, nowMs, null))
+    statement<never, [string, string, string, string, number, number, number]>(sqlite, SQL.insertWatch)
+      .run(watchId, userId, content.deck.id, day, practice ? 1 : 0, nowMs, nowMs)
+    const ids = plan.sightings.map((p, i) => insertSighting(sqlite, watchId, userId, p, i, nowMs))
     storeTeaching(sqlite, watchId, userId, content, ids, plan.sightings, plan.introductions)
     return storedWatch(sqlite, watchId, content, day)
   }).immediate()
 }
 
+/** Today's watch (or a practice) for the signed-in trainee, on the server's database. */
+export function startWatch(userId: string, deckId: string | undefined, opts: { practice?: boolean } = {}): IssuedWatch {
+  return issueWatch(useSqlite(), userId, deckId, Date.now(), serverRandom, opts)
+}
+
 // How many sightings a practice would hold: the tracks called before (with a rendered view), at most PRACTICE_SIZE.
 function practiceSizeOf(tracks: readonly PlanTrack[], content: DeckContent) {
-  const drillable = new Set(drillableKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
-  return Math.min(PRACTICE_SIZE, tracks.filter(t => t.state.reps > 0 && drillable.has(`${t.targetTypeId}|${t.aspect}`)).length)
+  const keyed = new Set(trackKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
+  return Math.min(PRACTICE_SIZE, tracks.filter(t => t.state.reps > 0 && keyed.has(`${t.targetTypeId}|${t.aspect}`)).length)
 }
 
 function workloadOf(sqlite: Database, userId: string, content: DeckContent, nowMs: number): DeckWorkload {
-  const keys = drillableKeys(content)
+  const keys = trackKeys(content)
   const tracks = new Map(readTracks(sqlite, userId, content.deck.id).map(t => [`${t.targetTypeId}|${t.aspect}`, t]))
   let due = 0
   let fresh = 0
@@ -498,9 +431,9 @@ function workloadOf(sqlite: Database, userId: string, content: DeckContent, nowM
   const today = watchDay(nowMs)
   let openWatchId: string | null = null
   let openLeft = 0
-  for (const w of stmt(sqlite, 'openWatches').all(userId, content.deck.id) as { id: string, day: string }[]) {
+  for (const w of openWatchesOf(sqlite, userId, content.deck.id)) {
     if (w.day !== today) continue
-    const left = (stmt(sqlite, 'watchSightings').all(w.id) as StoredSightingRow[]).filter(s => !s.called).length
+    const left = watchSightings(sqlite, w.id).filter(s => !s.called).length
     if (left > 0) {
       openWatchId = w.id
       openLeft = left
@@ -511,79 +444,24 @@ function workloadOf(sqlite: Database, userId: string, content: DeckContent, nowM
 }
 
 /** What each assigned deck holds for today, read only (no track or watch is created). */
-export function watchToday(sqlite: Database, userId: string, nowMs = Date.now()): WatchToday {
-  const decks = assignedDecks(sqlite, userId).map(d => workloadOf(sqlite, userId, loadDrillContent(sqlite, d.id)!, nowMs))
+export function watchToday(userId: string, nowMs = Date.now(), sqlite: Database = useSqlite()): WatchToday {
+  const decks = assignedDecks(sqlite, userId).map(d => workloadOf(sqlite, userId, loadDeckContent(sqlite, d.id)!, nowMs))
   return { day: watchDay(nowMs), decks }
 }
 
-// ---------------------------------------------------------------- calls
-
-interface CallSightingRow {
-  id: string
-  userId: string
-  watchId: string
-  trackId: string | null
-  targetTypeId: string
-  aspect: string
-  condition: string
-  position: number
-  windowMs: number
-  choices: string
-  answerChoiceId: string
-  issuedAt: number
-  reshowOf: string | null
-  voidedAt: number | null
-  kind: string
-  deckId: string | null
-  hesitationMs: number | null
-  retention: number | null
-  answerMode: string | null
-}
+// ---------------------------------------------------------------- a watch's call
 
 /**
- * Takes one call: graded by gradeCall, the track reviewed by FSRS at the call's own time
- * (calledAt bounded to [issuedAt, now]; more than CALL_LATE_LIMIT_MS after issue is refused), the
- * call stored once (a unique index: a resend gets the first stored result), a missed track
- * re-shown at least three sightings later. Another trainee's sighting answers 404, as an unknown one.
+ * A graded call on a watch's sighting (calls.ts reads, refuses and grades it): the track reviewed by
+ * FSRS at the call's own time, the answer revealed, a missed track re-shown at least three
+ * sightings later, all in one write with the call (stored once: a resend gets the first result).
  */
-export function callSighting(sqlite: Database, userId: string, sightingId: string, input: CallInput, nowMs = Date.now(), random: DrillRandom = serverRandom): CallResult | CheckCallRecorded {
-  const s = stmt(sqlite, 'sightingForCall').get(sightingId) as CallSightingRow | undefined
-  if (!s || s.userId !== userId || !s.deckId) throw notFound('No such sighting was issued to you.')
-  const stored = stmt(sqlite, 'callResult').get(sightingId) as { result: string } | undefined
-  if (stored) return JSON.parse(stored.result) as CallResult
-  if (s.voidedAt !== null) throw createError({ statusCode: 409, message: VOIDED_MESSAGE })
-
-  const calledAt = Math.min(Math.max(input.calledAt ?? nowMs, s.issuedAt), nowMs)
-  if (calledAt - s.issuedAt > CALL_LATE_LIMIT_MS) {
-    throw createError({ statusCode: 409, message: 'This sighting was issued more than 36 hours before the call; start today\'s watch for fresh ones.' })
-  }
-  const choices = JSON.parse(s.choices) as PlannedChoice[]
-  const type = stmt(sqlite, 'answerType').get(s.targetTypeId) as { id: string, name: string, features: string }
-  const choice = input.typed === undefined && input.choiceId ? choices.find(c => c.id === input.choiceId) : undefined
-  if (input.typed === undefined && input.choiceId && !choice) throw createError({ statusCode: 400, message: 'choiceId: That choice does not belong to this sighting.' })
-  const choiceId = choice?.id ?? null
-  const latencyMs = input.latencyMs
-  const { correct, grade, anticipation, typedTypeId } = gradeAnswer({ choiceId, typed: input.typed, latencyMs }, {
-    answerTypeId: s.targetTypeId,
-    answerChoiceId: s.answerChoiceId,
-    names: () => stmt(sqlite, 'deckNames').all(s.deckId) as { id: string, name: string }[],
-    hesitationMs: s.hesitationMs,
-    windowMs: s.windowMs,
-  })
-  const calledTypeId = input.typed !== undefined ? typedTypeId : choice?.typeId ?? null
-  // A check's call gives no feedback and leaves the tracks alone (server/domain/checks.ts).
-  if (s.kind === 'check') {
-    return recordCheckCall(sqlite, {
-      sightingId, userId, watchId: s.watchId, deckId: s.deckId, targetTypeId: s.targetTypeId, calledTypeId, aspect: s.aspect,
-      condition: s.condition, choiceId, typed: input.typed ?? null, correct, grade, anticipation, latencyMs,
-      framesShown: input.framesShown, frameIntervalMs: input.frameIntervalMs, calledAt, offline: nowMs - calledAt > OFFLINE_AFTER_MS,
-    }, nowMs)
-  }
-
+export function recordWatchCall(sqlite: Database, s: CallSightingRow, choices: readonly PlannedChoice[], call: CallFields, nowMs: number, random: WatchRandom): CallResult {
+  const { sightingId, userId, deckId, calledAt, grade, correct } = call
   return allOrNothing(sqlite, () => {
-    const again = stmt(sqlite, 'callResult').get(sightingId) as { result: string } | undefined
-    if (again) return JSON.parse(again.result) as CallResult
-    const trackRow = s.trackId ? stmt(sqlite, 'track').get(s.trackId) as TrackRow | undefined : undefined
+    const again = storedCallResult<CallResult>(sqlite, sightingId)
+    if (again) return again
+    const trackRow = s.trackId ? statement<TrackRow, [string]>(sqlite, SQL.track).get(s.trackId) : undefined
     let before: TrackState | null = null
     let after: TrackState | null = null
     let trackOut = { stage: 'new' as CallResult['track']['stage'], due: calledAt }
@@ -591,7 +469,7 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       const track = toPlanTrack(trackRow)
       // Calls synced out of order are applied no earlier than the track's last review.
       const reviewAt = Math.max(calledAt, track.state.lastReview ?? 0)
-      const review = reviewTrack(track.state, grade, reviewAt, { retention: s.retention ?? 0.9, weights: weightsForCall(sqlite, userId, s.deckId!) })
+      const review = reviewTrack(track.state, grade, reviewAt, { retention: s.retention ?? 0.9, weights: weightsOfCrew(sqlite, s.crewId) })
       before = review.before
       after = review.after
       trackOut = { stage: stageOf(after, reviewAt, s.retention ?? 0.9), due: after.due }
@@ -600,30 +478,31 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
       sightingId,
       grade,
       correct,
-      anticipation,
-      calledChoiceId: choiceId,
+      anticipation: call.anticipation,
+      calledChoiceId: call.choiceId,
       answer: {
-        id: type.id, choiceId: choices.length ? s.answerChoiceId : null, name: type.name, features: parseFeatures(type.features),
-        imageUrl: revealPicture(sqlite, s.watchId, type.id, s.aspect),
+        id: s.targetTypeId, choiceId: choices.length ? s.answerChoiceId : null, name: s.typeName, features: parseFeatures(s.typeFeatures),
+        imageUrl: revealPicture(sqlite, s.watchId, s.targetTypeId, s.aspect),
       },
-      latencyMs,
+      latencyMs: call.latencyMs,
       calledAt,
       track: trackOut,
       called: null,
     }
     // A wrong name: the type called, beside the right one in the reveal.
-    if (!correct && calledTypeId && calledTypeId !== type.id) {
-      const other = stmt(sqlite, 'answerType').get(calledTypeId) as { id: string, name: string, features: string } | undefined
+    const calledTypeId = call.calledTypeId
+    if (!correct && calledTypeId && calledTypeId !== s.targetTypeId) {
+      const other = statement<AnswerTypeRow, [string]>(sqlite, SQL.answerType).get(calledTypeId)
       if (other) {
         result.called = { name: other.name, aspect: s.aspect, features: parseFeatures(other.features), imageUrl: revealPicture(sqlite, s.watchId, other.id, s.aspect) }
       }
     }
     let reshow: { plan: PlannedSighting, id: string } | null = null
-    if (grade === 'missed' && trackRow && after && s.kind === 'watch') {
-      const count = (stmt(sqlite, 'reshowCount').get(s.watchId, trackRow.id) as { n: number }).n
+    if (grade === 'missed' && trackRow && after) {
+      const count = statement<{ n: number }, [string, string]>(sqlite, SQL.reshowCount).get(s.watchId, trackRow.id)!.n
       if (count < MAX_RESHOWS_PER_TRACK) {
         // Only the missed track's own views are read: a re-show needs no other rendering.
-        const content = loadDrillContent(sqlite, s.deckId!, { targetTypeId: trackRow.targetTypeId, aspect: trackRow.aspect })
+        const content = loadDeckContent(sqlite, deckId, { targetTypeId: trackRow.targetTypeId, aspect: trackRow.aspect })
         if (content && content.views.length) {
           // The re-show offers the names the missed sighting offered (chosen from look-alikes and the
           // crew's confusions when the watch was issued), in a new order under new ids; so a call
@@ -639,51 +518,30 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
     }
     // The whole answer is known before the insert, so the stored result is written with the call itself.
     // Only a re-show needs the sightings still to come; otherwise whether any is left.
-    const remaining = reshow ? stmt(sqlite, 'uncalled').all(s.watchId, sightingId) as { id: string, typeId: string, position: number }[] : []
-    const anyLeft = reshow ? remaining.length > 0 : !!stmt(sqlite, 'anyUncalled').get(s.watchId, sightingId)
+    const remaining = reshow ? statement<{ id: string, typeId: string, position: number }, [string, string]>(sqlite, SQL.uncalled).all(s.watchId, sightingId) : []
+    const anyLeft = reshow ? remaining.length > 0 : !!statement<unknown, [string, string]>(sqlite, SQL.anyUncalled).get(s.watchId, sightingId)
     let order: string[] = []
     if (reshow) {
       reshow.id = newId()
       order = reshowOrder(sightingId, remaining, { id: reshow.id, typeId: s.targetTypeId })
       result.appended = [issuedFromPlan(reshow.id, s.position + 1 + order.indexOf(reshow.id), reshow.plan, s.answerMode ?? 'choices', true)]
     }
-    const info = stmt(sqlite, 'insertCall').run({
-      id: newCallId(),
-      sightingId,
-      userId,
-      deckId: s.deckId,
-      trackId: s.trackId,
-      targetTypeId: s.targetTypeId,
-      calledTypeId,
-      aspect: s.aspect,
-      condition: s.condition,
-      choiceId,
-      typed: input.typed ?? null,
-      correct: correct ? 1 : 0,
-      grade,
-      anticipation: anticipation ? 1 : 0,
-      latencyMs,
-      framesShown: input.framesShown,
-      frameIntervalMs: input.frameIntervalMs,
-      calledAt,
-      receivedAt: nowMs,
-      offline: nowMs - calledAt > OFFLINE_AFTER_MS ? 1 : 0,
+    const stored = insertCall(sqlite, call, {
       before: before ? JSON.stringify(before) : null,
       after: after ? JSON.stringify(after) : null,
       result: JSON.stringify(result),
-    })
-    if (info.changes === 0) {
-      return JSON.parse((stmt(sqlite, 'callResult').get(sightingId) as { result: string }).result) as CallResult
-    }
-    if (trackRow && after) stmt(sqlite, 'updateTrack').run({ id: trackRow.id, ...after, now: nowMs })
+    }, nowMs)
+    if (!stored) return storedCallResult<CallResult>(sqlite, sightingId)!
+    if (trackRow && after) statement<never, [TrackParams]>(sqlite, SQL.updateTrack).run({ id: trackRow.id, ...after, now: nowMs })
     if (reshow) {
       // The re-show goes in at its place; of the others only those that move are written (the ones
       // after it, mostly), since every row written is one more page in the commit.
-      insertPlanned(sqlite, s.watchId, userId, reshow.plan, s.position + 1 + order.indexOf(reshow.id), nowMs, sightingId, reshow.id)
+      insertSighting(sqlite, s.watchId, userId, reshow.plan, s.position + 1 + order.indexOf(reshow.id), nowMs, sightingId, reshow.id)
       const positionOf = new Map(remaining.map(r => [r.id, r.position]))
+      const setPosition = statement<never, [number, string]>(sqlite, SQL.setPosition)
       order.forEach((id, i) => {
         const position = s.position + 1 + i
-        if (id !== reshow.id && positionOf.get(id) !== position) stmt(sqlite, 'setPosition').run(position, id)
+        if (id !== reshow.id && positionOf.get(id) !== position) setPosition.run(position, id)
       })
     }
     else if (!anyLeft) {
@@ -696,23 +554,21 @@ export function callSighting(sqlite: Database, userId: string, sightingId: strin
 // ---------------------------------------------------------------- a sighting's picture
 
 /** The rendering file of a sighting (watch or check) issued to this trainee; null for anyone else's or an unknown one. */
-export function sightingImageFile(sqlite: Database, userId: string, sightingId: string): string | null {
-  const row = stmt(sqlite, 'sightingFile').get(sightingId, userId) as { file: string } | undefined
-  return row?.file ?? null
+export function sightingImageFile(userId: string, sightingId: string, sqlite: Database = useSqlite()): string | null {
+  return statement<{ file: string }, [string, string]>(sqlite, SQL.sightingFile).get(sightingId, userId)?.file ?? null
 }
 
 // ---------------------------------------------------------------- the offline pack
 
 /** The watch's sightings with their answers and features, for feedback with no connection; never a check's. */
-export function watchPack(sqlite: Database, userId: string, watchId: string): WatchPack {
-  const w = stmt(sqlite, 'watch').get(watchId) as { id: string, userId: string, deckId: string | null, kind: string, day: string, title: string, hesitationMs: number, answerMode: string } | undefined
+export function watchPack(userId: string, watchId: string, sqlite: Database = useSqlite()): WatchPack {
+  const w = statement<WatchRow, [string]>(sqlite, SQL.watch).get(watchId)
   if (!w || w.userId !== userId || !w.deckId) throw notFound('No such watch of yours.')
   if (w.kind === 'check') throw createError({ statusCode: 403, message: 'A check has no pack: it runs online only.' })
-  const names = stmt(sqlite, 'deckNames').all(w.deckId) as { id: string, name: string }[]
+  const names = statement<{ id: string, name: string }, [string]>(sqlite, SQL.deckNames).all(w.deckId)
   const types = new Map(names.map(n => [n.id, n]))
   const features = new Map<string, Record<string, string>>()
-  const rows = stmt(sqlite, 'watchSightings').all(watchId) as StoredSightingRow[]
-  const aspects = new Map((sqlite.prepare('SELECT id, aspect FROM sightings WHERE watch_id = ?').all(watchId) as { id: string, aspect: string }[]).map(r => [r.id, r.aspect]))
+  const rows = watchSightings(sqlite, watchId)
   const { byKey } = watchPictures(sqlite, watchId)
   const pictureAt = (typeId: string, aspect: string) => byKey.get(`${typeId}|${aspect}`) ?? [...byKey.values()].find(p => p.typeId === typeId)
   return {
@@ -724,10 +580,10 @@ export function watchPack(sqlite: Database, userId: string, watchId: string): Wa
     introductions: introductionsOf(sqlite, watchId),
     sightings: rows.map((r) => {
       if (!features.has(r.targetTypeId)) {
-        const t = stmt(sqlite, 'answerType').get(r.targetTypeId) as { features: string } | undefined
+        const t = statement<AnswerTypeRow, [string]>(sqlite, SQL.answerType).get(r.targetTypeId)
         features.set(r.targetTypeId, parseFeatures(t?.features ?? null))
       }
-      const aspect = aspects.get(r.id) ?? ''
+      const aspect = r.aspect
       return {
         ...issuedFromRow(r, w.answerMode),
         hesitationMs: w.hesitationMs,
@@ -749,16 +605,7 @@ export function watchPack(sqlite: Database, userId: string, watchId: string): Wa
 
 // ---------------------------------------------------------------- voided sightings
 
-const VOID_SQL = {
-  setVoided: `UPDATE sightings SET voided_at = ? WHERE id = ? AND voided_at IS NULL
-    AND NOT EXISTS (SELECT 1 FROM calls c WHERE c.sighting_id = sightings.id)`,
-  copyOf: `SELECT id FROM sightings WHERE watch_id = ? AND id <> ? AND track_id IS ? AND variant_id IS ? AND issued_at = ?`,
-  copy: `INSERT INTO sightings (id, watch_id, user_id, track_id, target_type_id, position, variant_id, aspect, condition, range_m,
-    binoculars, apparent_px, exposure_ms, window_ms, choices, answer_choice_id, reshow_of, issued_at)
-    SELECT @id, watch_id, user_id, track_id, target_type_id, @position, variant_id, aspect, condition, range_m, binoculars,
-    apparent_px, exposure_ms, window_ms, @choices, @answerChoiceId, reshow_of, @now FROM sightings WHERE id = @from`,
-  row: `SELECT voided_at AS voidedAt, variant_id AS variantId FROM sightings WHERE id = ?`,
-} as const
+interface VoidRow { voidedAt: number | null, variantId: string | null, rangeM: number, binoculars: number, apparentPx: number, exposureMs: number, reshowOf: string | null }
 
 export interface VoidResult { sightingId: string, voidedAt: number, appended: IssuedSighting[] }
 
@@ -766,21 +613,22 @@ export interface VoidResult { sightingId: string, voidedAt: number, appended: Is
  * Voids an uncalled sighting of a watch (the screen was hidden while it showed): it takes no call
  * (409), and a copy with fresh choice ids goes to the end of the same watch. A resend returns the same copy.
  */
-export function voidSighting(sqlite: Database, userId: string, sightingId: string, nowMs = Date.now()): VoidResult {
+export function voidSighting(userId: string, sightingId: string, nowMs = Date.now(), sqlite: Database = useSqlite()): VoidResult {
   return sqlite.transaction(() => {
-    const s = stmt(sqlite, 'sightingForCall').get(sightingId) as CallSightingRow | undefined
+    const s = sightingForCall(sqlite, sightingId)
     if (!s || s.userId !== userId || !s.deckId) throw notFound('No such sighting was issued to you.')
     if (s.kind !== 'watch') throw createError({ statusCode: 403, message: 'Only a sighting of a watch can be voided.' })
-    if (stmt(sqlite, 'callResult').get(sightingId)) throw createError({ statusCode: 409, message: 'This sighting was already called; a called sighting cannot be voided.' })
-    const row = sqlite.prepare(VOID_SQL.row).get(sightingId) as { voidedAt: number | null, variantId: string | null }
+    if (s.result !== null) throw createError({ statusCode: 409, message: 'This sighting was already called; a called sighting cannot be voided.' })
+    const row = statement<VoidRow, [string]>(sqlite, SQL.voidRow).get(sightingId)!
     const voidedAt = row.voidedAt ?? nowMs
     const answerMode = s.answerMode ?? 'choices'
-    const read = (id: string) => (stmt(sqlite, 'watchSightings').all(s.watchId) as StoredSightingRow[]).filter(r => r.id === id).map(r => issuedFromRow(r, answerMode))
+    const read = (id: string) => watchSightings(sqlite, s.watchId).filter(r => r.id === id).map(r => issuedFromRow(r, answerMode))
     if (row.voidedAt !== null) {
-      const copy = sqlite.prepare(VOID_SQL.copyOf).get(s.watchId, sightingId, s.trackId, row.variantId, row.voidedAt) as { id: string } | undefined
+      const copy = statement<{ id: string }, [string, string, string | null, string | null, number]>(sqlite, SQL.copyOf)
+        .get(s.watchId, sightingId, s.trackId, row.variantId, row.voidedAt)
       return { sightingId, voidedAt, appended: copy ? read(copy.id) : [] }
     }
-    sqlite.prepare(VOID_SQL.setVoided).run(voidedAt, sightingId)
+    statement<never, [number, string]>(sqlite, SQL.setVoided).run(voidedAt, sightingId)
     // Fresh choice ids, so nothing links the copy's buttons to the voided sighting's.
     const ids = new Map<string, string>()
     const choices = (JSON.parse(s.choices) as PlannedChoice[]).map((c) => {
@@ -788,8 +636,13 @@ export function voidSighting(sqlite: Database, userId: string, sightingId: strin
       return { ...c, id: ids.get(c.id)! }
     })
     const id = newId()
-    const position = (stmt(sqlite, 'maxPosition').get(s.watchId) as { p: number }).p + 1
-    sqlite.prepare(VOID_SQL.copy).run({ id, position, choices: JSON.stringify(choices), answerChoiceId: ids.get(s.answerChoiceId) ?? s.answerChoiceId, now: voidedAt, from: sightingId })
+    const position = statement<{ p: number }, [string]>(sqlite, SQL.maxPosition).get(s.watchId)!.p + 1
+    // The copy is the same sighting (rendering, range, exposure) under a new id, stored as any other.
+    insertSighting(sqlite, s.watchId, userId, {
+      trackId: s.trackId, targetTypeId: s.targetTypeId, variantId: row.variantId, aspect: s.aspect, condition: s.condition, rangeM: row.rangeM,
+      binoculars: !!row.binoculars, apparentPx: row.apparentPx, exposureMs: row.exposureMs, windowMs: s.windowMs, choices,
+      answerChoiceId: ids.get(s.answerChoiceId) ?? s.answerChoiceId,
+    }, position, voidedAt, row.reshowOf, id)
     return { sightingId, voidedAt, appended: read(id) }
   }).immediate()
 }

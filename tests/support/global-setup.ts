@@ -75,10 +75,10 @@ function filesUnder(dir: string): string[] {
   })
 }
 
-// The seeded demo (people, decks with their renderings, history) depends only on these sources:
-// seed it once into tests/.tmp/seed-<hash>/ and give each run a copy.
+// The seeded demo (people, decks with their renderings, history through the domain's watch and call
+// code) depends only on these sources: seed it once into tests/.tmp/seed-<hash>/ and give each run a copy.
 function seededTemplate() {
-  const sources = ['server/seed', 'server/scripts/seed.ts', 'server/core', 'server/database', 'shared', 'drizzle']
+  const sources = ['server/seed', 'server/scripts/seed.ts', 'server/core', 'server/domain', 'server/utils', 'server/database', 'shared', 'drizzle']
     .flatMap(p => statSync(p).isDirectory() ? filesUnder(p) : [p]).sort()
   const hash = createHash('sha256')
   for (const f of sources) hash.update(relative('.', f)).update(readFileSync(f))

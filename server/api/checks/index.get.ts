@@ -3,5 +3,5 @@ import { listChecks } from '../../domain/checks'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireActor(event)
-  return listChecks(useSqlite(), actor)
+  return listChecks(actor)
 })

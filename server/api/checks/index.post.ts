@@ -5,7 +5,7 @@ import { createCheck } from '../../domain/checks'
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'instructor')
   const input = await readInput(event, CheckBody)
-  const check = createCheck(useSqlite(), actor, input)
+  const check = createCheck(actor, input)
   audit(actor, 'check.create', 'check', check.id, { ...input })
   setResponseStatus(event, 201)
   return check

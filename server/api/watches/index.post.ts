@@ -1,5 +1,5 @@
 import { WatchBody } from '#shared/schemas/drill'
-import { issueWatch } from '../../domain/watches'
+import { startWatch } from '../../domain/watches'
 
 // Today's watch: the open one again, or a new one issued at once; with practice, a short practice
 // when nothing is due (see server/domain/watches.ts).
@@ -9,5 +9,5 @@ export default defineEventHandler(async (event) => {
     throw createError({ statusCode: 400, message: 'The request body must be JSON.' })
   })
   const { deckId, practice } = validator(WatchBody)(body ?? {})
-  return issueWatch(useSqlite(), actor.id, deckId, Date.now(), undefined, { practice })
+  return startWatch(actor.id, deckId, { practice })
 })

@@ -3,5 +3,5 @@ import { watchToday } from '../../domain/watches'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'trainee')
-  return watchToday(useSqlite(), actor.id)
+  return watchToday(actor.id)
 })

@@ -2,7 +2,7 @@
 // Harder conditions and longer ranges come as the track's stability grows, on the same
 // rungs as the exposure ladder.
 import { apparentPx, BINOCULAR_MAGNIFICATION, horizonDistanceM, rangeForPx } from '../../../shared/utils/apparent-size'
-import { exposureFor, exposureLimitMs, ladderRung } from '../../../shared/utils/exposure'
+import { exposureFor, exposureLimitMs, ladderRung, NEW_TRACK_MAX_EXPOSURE_MS } from '../../../shared/utils/exposure'
 import type { LadderRung } from '../../../shared/utils/exposure'
 import { conditionDifficulty, isCondition } from '../../../shared/utils/conditions'
 import type { Condition } from '../../../shared/utils/conditions'
@@ -56,6 +56,14 @@ export interface PlanInput {
   views: readonly PlanView[]
   deck: PlanDeckSettings
   rng: Rng
+  // A check's overrides: one condition, one exposure and one size band for every trainee, whatever the track.
+  fixed?: SightingOverrides
+}
+
+export interface SightingOverrides {
+  condition: string
+  exposureMs: number
+  pxBand: readonly [number, number]
 }
 
 export interface SightingPlan {
@@ -109,10 +117,11 @@ export function placeRange(sizeM: number, category: string, wantPx: number): { r
  * Plans a sighting for a track. Views with a rendering allowed on the track's rung are
  * preferred; the condition is drawn among the allowed ones; the apparent size is drawn in
  * the rung's px band and turned into a range (placeRange). The window is the deck's, but
- * never shorter than the exposure.
+ * never shorter than the exposure. A check's sighting gives `fixed`: its condition (the view drawn
+ * among those rendered under it), its exposure and its size band replace the track's.
  */
 export function planSighting(input: PlanInput): SightingPlan {
-  const { track, targetType, views, deck, rng } = input
+  const { track, targetType, views, deck, rng, fixed } = input
   if (!Number.isFinite(targetType.sizeM) || targetType.sizeM <= 0) {
     throw new RangeError(`sizeM must be > 0, got ${targetType.sizeM}`)
   }
@@ -120,17 +129,28 @@ export function planSighting(input: PlanInput): SightingPlan {
   if (usable.length === 0) throw new RangeError('no rendered view of this aspect')
 
   const rung: LadderRung = ladderRung(track)
-  const maxDifficulty = MAX_DIFFICULTY_BY_RUNG[rung]!
-  const fitting = usable.filter(v => v.conditions.some(c => isCondition(c) && conditionDifficulty(c) <= maxDifficulty))
-  const pool = fitting.length > 0 ? fitting : usable
-  const view = pool[randomIndex(rng, pool.length)]!
-  const condition = pickCondition(view, maxDifficulty, rng)
+  let view: PlanView
+  let condition: Condition
+  if (fixed) {
+    if (!isCondition(fixed.condition)) throw new RangeError(`unknown condition ${fixed.condition}`)
+    const pool = usable.filter(v => v.conditions.includes(fixed.condition))
+    if (pool.length === 0) throw new RangeError(`no view of this aspect rendered under ${fixed.condition}`)
+    view = pool[randomIndex(rng, pool.length)]!
+    condition = fixed.condition
+  }
+  else {
+    const maxDifficulty = MAX_DIFFICULTY_BY_RUNG[rung]!
+    const fitting = usable.filter(v => v.conditions.some(c => isCondition(c) && conditionDifficulty(c) <= maxDifficulty))
+    const pool = fitting.length > 0 ? fitting : usable
+    view = pool[randomIndex(rng, pool.length)]!
+    condition = pickCondition(view, maxDifficulty, rng)
+  }
 
-  const [lo, hi] = PX_BY_RUNG[rung]!
+  const [lo, hi] = fixed?.pxBand ?? PX_BY_RUNG[rung]!
   const placed = placeRange(targetType.sizeM, targetType.category, lo + rng() * (hi - lo))
 
-  const exposure = exposureFor(track, deck.minExposureMs)
-  const exposureMs = exposureLimitMs(exposure)
+  const exposure = fixed ? null : exposureFor(track, deck.minExposureMs)
+  const exposureMs = exposure ? exposureLimitMs(exposure) : fixed!.exposureMs
   return {
     viewId: view.id,
     condition,
@@ -138,7 +158,7 @@ export function planSighting(input: PlanInput): SightingPlan {
     binoculars: placed.binoculars,
     apparentPx: placed.apparentPx,
     exposureMs,
-    untilCall: exposure.untilCall,
+    untilCall: exposure ? exposure.untilCall : exposureMs >= NEW_TRACK_MAX_EXPOSURE_MS,
     windowMs: Math.max(deck.windowMs, exposureMs),
   }
 }

@@ -147,7 +147,7 @@ const MAX_RESHOWS = 2
 // schedules with practice watches as the server issues them when nothing is due (buildPracticeQueue:
 // lowest retrievability and the worst-confused types in turn, PRACTICE_SIZE a watch), for Leitner's
 // boxes with the lowest boxes first (the boxes' own priority), the rotation by going on round.
-// The server's watch holds at most 30 sightings (WATCH_MAX_SIGHTINGS in server/domain/watch-plan.ts).
+// The server's watch holds at most 30 sightings (WATCH_MAX_SIGHTINGS in server/core/watch/plan.ts).
 const WATCH_MAX_SIGHTINGS = 30
 
 /** Type ids of the person's confused pairs, the most frequent pair first, both sides (as the server ranks a crew's). */

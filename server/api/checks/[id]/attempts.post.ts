@@ -6,5 +6,5 @@ export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'trainee')
   setResponseStatus(event, 201)
-  return startCheckAttempt(useSqlite(), actor, id)
+  return startCheckAttempt(actor, id)
 })

@@ -5,7 +5,7 @@ import { deleteCheck } from '../../../domain/checks'
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'instructor')
-  const check = deleteCheck(useSqlite(), actor, id)
+  const check = deleteCheck(actor, id)
   audit(actor, 'check.delete', 'check', id, { title: check.title, deckId: check.deckId })
   return { ok: true }
 })

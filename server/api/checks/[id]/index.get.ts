@@ -5,5 +5,5 @@ import { readCheck } from '../../../domain/checks'
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireActor(event)
-  return readCheck(useSqlite(), actor, id)
+  return readCheck(actor, id)
 })

@@ -7,7 +7,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'instructor')
   const patch = await readInput(event, CheckPatch)
-  const check = updateCheck(useSqlite(), actor, id, patch)
+  const check = updateCheck(actor, id, patch)
   audit(actor, 'check.update', 'check', id, { ...patch })
   return check
 })

@@ -5,7 +5,7 @@ import { retireCheck } from '../../../domain/checks'
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'instructor')
-  const check = retireCheck(useSqlite(), actor, id)
+  const check = retireCheck(actor, id)
   audit(actor, 'check.retire', 'check', id, { title: check.title, attempts: check.attempts })
   return check
 })

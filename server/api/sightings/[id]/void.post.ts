@@ -5,5 +5,5 @@ import { voidSighting } from '../../../domain/watches'
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'trainee')
-  return voidSighting(useSqlite(), actor.id, id)
+  return voidSighting(actor.id, id)
 })

@@ -5,5 +5,5 @@ import { watchPack } from '../../../domain/watches'
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'trainee')
-  return watchPack(useSqlite(), actor.id, id)
+  return watchPack(actor.id, id)
 })

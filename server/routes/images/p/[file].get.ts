@@ -8,7 +8,7 @@ import { pictureFileFor } from '../../../domain/watches'
 export default defineEventHandler(async (event) => {
   const { file } = validator(PictureFileParam)({ file: getRouterParam(event, 'file') ?? '' })
   const actor = await requireActor(event)
-  const name = pictureFileFor(useSqlite(), actor.id, file.slice(0, -'.webp'.length))
+  const name = pictureFileFor(actor.id, file.slice(0, -'.webp'.length))
   const bytes = name ? await readFile(join(rendersDir(useRuntimeConfig().uploadsDir), name)).catch(() => null) : null
   if (!bytes) throw createError({ statusCode: 404, message: 'No such picture in your watches.' })
   setResponseHeaders(event, {

@@ -7,7 +7,7 @@ export default defineEventHandler(async (event) => {
   const file = getRouterParam(event, 'file') ?? ''
   const { file: name } = validator(SightingImageParam)({ file })
   const actor = await requireActor(event)
-  const rendering = sightingImageFile(useSqlite(), actor.id, name.slice(0, -'.webp'.length))
+  const rendering = sightingImageFile(actor.id, name.slice(0, -'.webp'.length))
   if (!rendering) throw createError({ statusCode: 404, message: 'No such image.' })
   return sendRendering(event, rendering, useRuntimeConfig().uploadsDir)
 })

@@ -5,5 +5,5 @@ import { finishCheckAttempt } from '../../../../domain/checks'
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'trainee')
-  return finishCheckAttempt(useSqlite(), actor, id)
+  return finishCheckAttempt(actor, id)
 })

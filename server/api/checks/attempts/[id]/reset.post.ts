@@ -5,7 +5,7 @@ import { resetCheckAttempt } from '../../../../domain/checks'
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'lead')
-  const attempt = resetCheckAttempt(useSqlite(), actor, id)
+  const attempt = resetCheckAttempt(actor, id)
   audit(actor, 'check.reset', 'check_attempt', id, { checkId: attempt.checkId, userId: attempt.userId })
   return attempt
 })

@@ -7,7 +7,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'lead')
   const { remark } = await readInput(event, SignOffBody)
-  const attempt = signOffCheckAttempt(useSqlite(), actor, id, Date.now(), remark ?? null)
+  const attempt = signOffCheckAttempt(actor, id, Date.now(), remark ?? null)
   audit(actor, 'check.sign-off', 'check_attempt', id, {
     checkId: attempt.checkId, userId: attempt.userId, score: attempt.score, passed: attempt.passed, ...(remark ? { remark } : {}),
   })

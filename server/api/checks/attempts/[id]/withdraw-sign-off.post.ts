@@ -7,7 +7,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
   const actor = await requireRole(event, 'lead')
   const { reason } = await readInput(event, WithdrawSignOffBody)
-  const { before, after } = withdrawSignOff(useSqlite(), actor, id, reason)
+  const { before, after } = withdrawSignOff(actor, id, reason)
   audit(actor, 'check.sign-off.withdraw', 'check_attempt', id, {
     checkId: after.checkId, userId: after.userId, reason, signedOffBy: before.signedOffBy, signedOffAt: before.signedOffAt,
   })

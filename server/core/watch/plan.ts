@@ -1,17 +1,18 @@
-// Plans a watch from a deck's content and a trainee's tracks: the one function that decides
-// what a watch shows (queue, view, condition, range, exposure, choices). Pure apart from the
-// random sources it is given, so the server and the demo history seed run the same code.
-import { buildPracticeQueue, buildWatchQueue, insertReshow, placeIntroductions, PRACTICE_SIZE } from '../core/watch/queue'
-import type { QueueTrack } from '../core/watch/queue'
-import { planSighting } from '../core/watch/sighting-plan'
-import { makeChoiceIds, pickChoices, sharedFeatureCount } from '../core/watch/choices'
-import { seedFromString } from '../core/watch/rng'
-import type { Rng } from '../core/watch/rng'
-import type { TrackState } from '../core/scheduling/fsrs'
-import { CONDITION_DIFFICULTY, isCondition } from '../../shared/utils/conditions'
-import { NEW_TRACK_MAX_EXPOSURE_MS } from '../../shared/utils/exposure'
+// Plans a watch from a deck's content and a trainee's tracks: the one code that decides what a
+// watch or a check shows (queue, view, condition, range, exposure, choices, ids). Pure apart from
+// the random sources it is given, so the server and the demo history seed run the same code.
+import { buildPracticeQueue, buildWatchQueue, insertReshow, placeIntroductions, PRACTICE_SIZE } from './queue'
+import type { QueueTrack } from './queue'
+import { planSighting } from './sighting-plan'
+import type { SightingOverrides } from './sighting-plan'
+import { makeChoiceIds, pickChoices, sharedFeatureCount } from './choices'
+import { seedFromString } from './rng'
+import type { Rng } from './rng'
+import type { TrackState } from '../scheduling/fsrs'
+import { CONDITION_DIFFICULTY, isCondition } from '../../../shared/utils/conditions'
+import { NEW_TRACK_MAX_EXPOSURE_MS } from '../../../shared/utils/exposure'
 
-// Longest watch: a few minutes on a phone (common practice for short daily drills, no source).
+// Longest watch: a few minutes on a phone (common practice for short daily sessions, no source).
 export const WATCH_MAX_SIGHTINGS = 30
 // A track comes back at most this many times in one watch after misses.
 export const MAX_RESHOWS_PER_TRACK = 2
@@ -70,7 +71,8 @@ export interface DeckContent {
 export interface PlannedChoice { id: string, label: string, typeId: string }
 
 export interface PlannedSighting {
-  trackId: string
+  // null for a check's sighting, which belongs to no track
+  trackId: string | null
   targetTypeId: string
   aspect: string
   variantId: string
@@ -102,8 +104,8 @@ export function viewsWithRenderings(content: DeckContent): ContentView[] {
   return content.views.filter(v => v.variants.some(x => isCondition(x.condition)))
 }
 
-/** The (target type, aspect) pairs that can be drilled: those with a rendered view. */
-export function drillableKeys(content: DeckContent): { targetTypeId: string, aspect: string }[] {
+/** The (target type, aspect) pairs a trainee holds tracks of: those with a rendered view, in introduction order. */
+export function trackKeys(content: DeckContent): { targetTypeId: string, aspect: string }[] {
   const typeOrder = new Map(content.types.map((t, i) => [t.id, i]))
   const seen = new Set<string>()
   const out: { targetTypeId: string, aspect: string }[] = []
@@ -119,19 +121,33 @@ export function drillableKeys(content: DeckContent): { targetTypeId: string, asp
 
 /** Plans one sighting of a track (also used for a re-show after a miss). */
 export function planTrackSighting(track: PlanTrack, ctx: PlanContext): PlannedSighting {
+  return planTarget(track.id, track.targetTypeId, track.aspect, track.state, ctx)
+}
+
+/**
+ * Plans one sighting of a check: the same choice of view, rendering, range, choices and ids as a
+ * watch's, with the check's overrides (its condition, exposure and size band) in place of what the
+ * track's ladder would give. A check's sighting belongs to no track.
+ */
+export function planCheckSighting(target: { targetTypeId: string, aspect: string }, fixed: SightingOverrides, ctx: PlanContext): PlannedSighting {
+  return planTarget(null, target.targetTypeId, target.aspect, { reps: 0, stability: 0 }, ctx, fixed)
+}
+
+function planTarget(trackId: string | null, targetTypeId: string, aspect: string, state: { reps: number, stability: number }, ctx: PlanContext, fixed?: SightingOverrides): PlannedSighting {
   const { content, rng } = ctx
-  const type = content.types.find(t => t.id === track.targetTypeId)
-  if (!type) throw new RangeError(`track ${track.id} names a type outside the deck`)
-  const views = viewsWithRenderings(content).filter(v => v.targetTypeId === track.targetTypeId && v.aspect === track.aspect)
+  const type = content.types.find(t => t.id === targetTypeId)
+  if (!type) throw new RangeError(`track ${trackId ?? '(check)'} names a type outside the deck`)
+  const views = viewsWithRenderings(content).filter(v => v.targetTypeId === targetTypeId && v.aspect === aspect)
   const plan = planSighting({
-    track: { reps: track.state.reps, stability: track.state.stability },
+    track: { reps: state.reps, stability: state.stability },
     targetType: { sizeM: type.sizeM, category: type.category },
     views: views.map(v => ({ id: v.id, conditions: v.variants.map(x => x.condition) })),
     deck: { windowMs: content.deck.windowMs, minExposureMs: content.deck.minExposureMs },
     rng,
+    fixed,
   })
   const view = views.find(v => v.id === plan.viewId)!
-  // The phone-sized rendering of the planned condition (the smallest width of that condition).
+  // The phone-sized rendering of the planned condition (the narrowest at least 320 px wide).
   const variant = view.variants.filter(x => x.condition === plan.condition).sort((a, b) => a.width - b.width)
     .find(x => x.width >= 320) ?? view.variants.filter(x => x.condition === plan.condition)[0]!
   let choices: PlannedChoice[] = []
@@ -153,9 +169,9 @@ export function planTrackSighting(track: PlanTrack, ctx: PlanContext): PlannedSi
     answerChoiceId = choices.find(c => c.typeId === type.id)!.id
   }
   return {
-    trackId: track.id,
+    trackId,
     targetTypeId: type.id,
-    aspect: track.aspect,
+    aspect,
     variantId: variant.id,
     file: variant.file,
     width: variant.width,
@@ -191,22 +207,16 @@ export interface PlannedIntroduction {
 export interface PlannedWatch { sightings: PlannedSighting[], introductions: PlannedIntroduction[] }
 
 /**
- * The day's watch: the queue of buildWatchQueue (due first by retrievability, new up to the
- * deck's limit less those introduced today, no type twice in a row), each sighting planned.
+ * The day's watch: the queue of buildWatchQueue (due first by retrievability, new up to the deck's
+ * limit less those introduced today, no type twice in a row), each sighting planned, with its
+ * introductions: each new track is introduced (placeIntroductions) before its first timed sighting,
+ * beside its nearest look-alike. A practice watch (asked for when nothing is due) takes
+ * buildPracticeQueue's tracks instead and introduces nothing.
  */
-export function planWatch(input: PlanWatchInput): PlannedSighting[] {
-  return planWatchItems(input).sightings
-}
-
-/**
- * The day's watch with its introductions: each new track is introduced (placeIntroductions) before
- * its first timed sighting, beside its nearest look-alike. A practice watch (asked for when nothing is
- * due) takes buildPracticeQueue's tracks instead and introduces nothing.
- */
-export function planWatchItems(input: PlanWatchInput & { practice?: boolean }): PlannedWatch {
+export function planWatch(input: PlanWatchInput & { practice?: boolean }): PlannedWatch {
   const { content, tracks, nowMs } = input
-  const drillable = new Set(drillableKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
-  const usable = tracks.filter(t => drillable.has(`${t.targetTypeId}|${t.aspect}`))
+  const keyed = new Set(trackKeys(content).map(k => `${k.targetTypeId}|${k.aspect}`))
+  const usable = tracks.filter(t => keyed.has(`${t.targetTypeId}|${t.aspect}`))
   const byId = new Map(usable.map(t => [t.id, t]))
   if (input.practice) {
     const queue = buildPracticeQueue({ tracks: usable, nowMs, confusedTypeIds: worstConfusedTypes(input.confusions), size: PRACTICE_SIZE })

@@ -102,20 +102,11 @@ export async function requireCrewRole(event: H3Event, crewId: string, ...roles: 
   return actor
 }
 
-// The crews the actor and the person are both members of.
-function sharedCrews(sqlite: Database, actor: Actor, userId: string): string[] {
-  if (!actor.crewIds.length) return []
+// The crews the actor leads that the person is in. The rule's home is crewsLedOver in
+// server/domain/policy.ts (with the rest of the access policy); this copy stays only until
+// server/domain/checks.ts imports it from there (issue 16, item 5), then goes.
+export function crewsLedOver(sqlite: Database, actor: Actor, userId: string): string[] {
+  if (!hasRole(actor, 'lead') || !actor.crewIds.length) return []
   return sqlite.prepare<[string, string], string>(`SELECT crew_id FROM memberships WHERE user_id = ?
     AND crew_id IN (SELECT value FROM json_each(?))`).pluck().all(userId, JSON.stringify(actor.crewIds))
-}
-
-// The one policy of a lead over a person: the crews the actor leads that the person is in. A
-// lead's powers over a person (reports, check results, reset, sign-off) stop at these crews.
-export function crewsLedOver(sqlite: Database, actor: Actor, userId: string): string[] {
-  return hasRole(actor, 'lead') ? sharedCrews(sqlite, actor, userId) : []
-}
-
-// Is the person a member of one of the actor's crews (those the actor leads or instructs)?
-export function sharesCrew(actor: Actor, userId: string) {
-  return sharedCrews(useSqlite(), actor, userId).length > 0
 }

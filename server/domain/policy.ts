@@ -8,6 +8,8 @@
 // them unless the admin also holds that role and relation: authoring (a deck's content, settings
 // and views, and its checks, are changed by the instructor who owns the deck) and leading (a sign-off
 // or a reset of a check attempt is the act of a lead of the trainee's crew).
+// The pages follow the same split: the deck builder is an instructor's page, a deck's confusions
+// (app/pages/confusions/[deckId].vue) an instructor's or an admin's.
 import { and, eq, exists, inArray } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import type { Actor } from '../utils/gate'

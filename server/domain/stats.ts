@@ -76,7 +76,7 @@ const SQL = {
 /** A JSON list of ids, as json_each(?) reads it. */
 type IdList = string
 
-type RawCall = [string, string, string | null, string, string, number, string, number, number | null, number, number]
+type RawCall = [string, string, string | null, string, string, number, CallGrade, number, number | null, number, number]
 
 export interface LoadedCall extends CallRecord {
   deckId: string
@@ -90,7 +90,7 @@ function toRecord(r: RawCall): LoadedCall {
     aspect: r[3],
     condition: r[4],
     correct: r[5] === 1,
-    grade: r[6] as CallGrade,
+    grade: r[6],
     anticipation: r[7] === 1,
     latencyMs: r[8],
     calledAt: r[9],

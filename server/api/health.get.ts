@@ -1,6 +1,4 @@
-import { sql } from 'drizzle-orm'
-
 export default defineEventHandler(() => {
-  useDb().get(sql`select 1`)
+  pingDatabase()
   return { status: 'ok' }
 })

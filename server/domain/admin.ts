@@ -1,4 +1,7 @@
-// Admin lists and the crews of a person: plain SQL on the one handle.
+// Admin lists (people, the audit log) and the crews of a person, through drizzle's query builder.
+import { and, asc, count, desc, eq, inArray, or, sql } from 'drizzle-orm'
+import type { SQL } from 'drizzle-orm'
+import { alias } from 'drizzle-orm/sqlite-core'
 import type { Role } from '#shared/types/roles'
 import type { Actor } from '../utils/gate'
 
@@ -6,6 +9,9 @@ import type { Actor } from '../utils/gate'
 export function likePattern(q: string) {
   return `%${q.toLowerCase().replace(/[\\%_]/g, c => `\\${c}`)}%`
 }
+
+// `text LIKE pattern`, with the backslash of likePattern as the escape.
+const likeEscaped = (text: SQL, pattern: string) => sql`${text} LIKE ${pattern} ESCAPE '\\'`
 
 export interface PersonRow {
   id: string
@@ -19,43 +25,48 @@ export interface PersonRow {
 }
 
 export function listPeople(q: string, page: number, size: number): { total: number, people: PersonRow[] } {
-  const sqlite = useSqlite()
-  const where = q ? `WHERE lower(u.name) LIKE ? ESCAPE '\\' OR lower(u.email) LIKE ? ESCAPE '\\'` : ''
-  const args = q ? [likePattern(q), likePattern(q)] : []
-  const total = sqlite.prepare(`SELECT count(*) FROM users u ${where}`).pluck().get(...args) as number
-  const rows = sqlite.prepare(`SELECT u.id, u.email, u.name, u.disabled, u.created_at AS createdAt,
-    (SELECT json_group_array(role) FROM (SELECT role FROM user_roles WHERE user_id = u.id ORDER BY role)) AS roles,
-    (SELECT json_group_array(json_object('id', c.id, 'name', c.name)) FROM (SELECT c.id, c.name FROM memberships m
-      JOIN crews c ON c.id = m.crew_id WHERE m.user_id = u.id ORDER BY c.name) c) AS crews
-    FROM users u ${where} ORDER BY u.name COLLATE NOCASE, u.id LIMIT ? OFFSET ?`)
-    .all(...args, size, (page - 1) * size) as { id: string, email: string, name: string, disabled: number, createdAt: number, roles: string, crews: string }[]
+  const db = useDb()
+  const u = tables.users
+  const like = likePattern(q)
+  const where = q ? or(likeEscaped(sql`lower(${u.name})`, like), likeEscaped(sql`lower(${u.email})`, like)) : undefined
+  const total = db.select({ n: count() }).from(u).where(where).get()!.n
+  const rows = db.select({ id: u.id, email: u.email, name: u.name, disabled: u.disabled, createdAt: u.createdAt }).from(u).where(where)
+    .orderBy(sql`${u.name} COLLATE NOCASE`, asc(u.id)).limit(size).offset((page - 1) * size).all()
+  const ids = rows.map(r => r.id)
+  const roles = ids.length
+    ? db.select().from(tables.userRoles).where(inArray(tables.userRoles.userId, ids)).orderBy(asc(tables.userRoles.role)).all()
+    : []
+  const crews = ids.length
+    ? db.select({ userId: tables.memberships.userId, id: tables.crews.id, name: tables.crews.name }).from(tables.memberships)
+        .innerJoin(tables.crews, eq(tables.crews.id, tables.memberships.crewId))
+        .where(inArray(tables.memberships.userId, ids)).orderBy(asc(tables.crews.name)).all()
+    : []
   return {
     total,
     people: rows.map((r) => {
-      const crews = JSON.parse(r.crews) as { id: string, name: string }[]
-      return { ...r, disabled: r.disabled === 1, roles: JSON.parse(r.roles) as Role[], crews, crewIds: crews.map(c => c.id) }
+      const own = crews.filter(c => c.userId === r.id).map(c => ({ id: c.id, name: c.name }))
+      return { ...r, roles: roles.filter(x => x.userId === r.id).map(x => x.role as Role), crews: own, crewIds: own.map(c => c.id) }
     }),
   }
 }
 
 // Sets a person's crews to exactly `crewIds`: joins and leaves in one transaction, one audit row each.
 export function setPersonCrews(actor: Actor, userId: string, crewIds: string[]) {
-  const sqlite = useSqlite()
+  const db = useDb()
+  const m = tables.memberships
   const wanted = [...new Set(crewIds)]
-  const known = sqlite.prepare(`SELECT id FROM crews WHERE id IN (SELECT value FROM json_each(?))`).pluck().all(JSON.stringify(wanted)) as string[]
+  const known = wanted.length ? db.select({ id: tables.crews.id }).from(tables.crews).where(inArray(tables.crews.id, wanted)).all().map(r => r.id) : []
   const unknown = wanted.filter(id => !known.includes(id))
   if (unknown.length) throw createError({ statusCode: 404, message: 'One of the chosen crews no longer exists. Reload the page and choose again.' })
-  const current = sqlite.prepare('SELECT crew_id FROM memberships WHERE user_id = ?').pluck().all(userId) as string[]
+  const current = db.select({ crewId: m.crewId }).from(m).where(eq(m.userId, userId)).all().map(r => r.crewId)
   const added = wanted.filter(id => !current.includes(id))
   const removed = current.filter(id => !wanted.includes(id))
-  const add = sqlite.prepare('INSERT OR IGNORE INTO memberships (crew_id, user_id, created_at) VALUES (?, ?, ?)')
-  const remove = sqlite.prepare('DELETE FROM memberships WHERE crew_id = ? AND user_id = ?')
-  sqlite.transaction(() => {
-    for (const id of added) add.run(id, userId, Date.now())
-    for (const id of removed) remove.run(id, userId)
+  db.transaction((tx) => {
+    for (const id of added) tx.insert(m).values({ crewId: id, userId, createdAt: Date.now() }).onConflictDoNothing().run()
+    for (const id of removed) tx.delete(m).where(and(eq(m.crewId, id), eq(m.userId, userId))).run()
     for (const id of added) audit(actor, 'crew.member.add', 'crew', id, { userId })
     for (const id of removed) audit(actor, 'crew.member.remove', 'crew', id, { userId })
-  })()
+  })
   return { added, removed }
 }
 
@@ -82,36 +93,39 @@ function idsIn(detail: Record<string, unknown> | null): string[] {
 }
 
 export function listAudit(opts: { q: string, action: string, page: number, size: number }): { total: number, entries: AuditEntry[] } {
-  const sqlite = useSqlite()
-  const conds: string[] = []
-  const args: unknown[] = []
-  if (opts.action) {
-    conds.push('a.action = ?')
-    args.push(opts.action)
-  }
+  const db = useDb()
+  const a = tables.auditLog
+  // The actor, under its own name: the search's subqueries read the users table again.
+  const actor = alias(tables.users, 'actor')
+  const conds: SQL[] = []
+  if (opts.action) conds.push(eq(a.action, opts.action))
   if (opts.q) {
     const like = likePattern(opts.q)
     // Who acted, what, the detail's text, and the person or crew the entry is about.
-    conds.push(`(lower(coalesce(u.name, '')) LIKE ? ESCAPE '\\' OR a.action LIKE ? ESCAPE '\\' OR lower(coalesce(a.detail, '')) LIKE ? ESCAPE '\\'
-      OR lower(coalesce((SELECT name FROM users WHERE id = a.subject_id), (SELECT name FROM crews WHERE id = a.subject_id), '')) LIKE ? ESCAPE '\\'
-      OR lower(coalesce((SELECT name FROM users WHERE id = json_extract(a.detail, '$.userId')), '')) LIKE ? ESCAPE '\\')`)
-    args.push(like, like, like, like, like)
+    conds.push(or(
+      likeEscaped(sql`lower(coalesce(${actor.name}, ''))`, like),
+      likeEscaped(sql`${a.action}`, like),
+      likeEscaped(sql`lower(coalesce(${a.detail}, ''))`, like),
+      likeEscaped(sql`lower(coalesce((SELECT name FROM users WHERE id = ${a.subjectId}), (SELECT name FROM crews WHERE id = ${a.subjectId}), ''))`, like),
+      likeEscaped(sql`lower(coalesce((SELECT name FROM users WHERE id = json_extract(${a.detail}, '$.userId')), ''))`, like),
+    )!)
   }
-  const where = conds.length ? `WHERE ${conds.join(' AND ')}` : ''
-  const from = 'FROM audit_log a LEFT JOIN users u ON u.id = a.actor_id'
-  const total = sqlite.prepare(`SELECT count(*) ${from} ${where}`).pluck().get(...args) as number
-  const rows = sqlite.prepare(`SELECT a.id, a.action, a.subject_type AS subjectType, a.subject_id AS subjectId, a.detail,
-    a.created_at AS createdAt, u.name AS actorName ${from} ${where} ORDER BY a.created_at DESC, a.id LIMIT ? OFFSET ?`)
-    .all(...args, opts.size, (opts.page - 1) * opts.size) as (Omit<AuditEntry, 'detail' | 'names'> & { detail: string | null })[]
-  const entries = rows.map(r => ({ ...r, detail: r.detail ? JSON.parse(r.detail) as Record<string, unknown> : null, names: {} as Record<string, string> }))
+  const where = conds.length ? and(...conds) : undefined
+  const total = db.select({ n: count() }).from(a).leftJoin(actor, eq(actor.id, a.actorId)).where(where).get()!.n
+  const rows = db.select({
+    id: a.id, action: a.action, subjectType: a.subjectType, subjectId: a.subjectId, detail: a.detail, createdAt: a.createdAt, actorName: actor.name,
+  }).from(a).leftJoin(actor, eq(actor.id, a.actorId)).where(where)
+    .orderBy(desc(a.createdAt), asc(a.id)).limit(opts.size).offset((opts.page - 1) * opts.size).all()
+  const entries: AuditEntry[] = rows.map(r => ({ ...r, detail: r.detail ?? null, names: {} }))
   const ids = [...new Set(entries.flatMap(e => [...(e.subjectId ? [e.subjectId] : []), ...idsIn(e.detail)]))]
   if (ids.length) {
-    const found = new Map((sqlite.prepare(`SELECT id, name FROM users WHERE id IN (SELECT value FROM json_each(@ids))
-      UNION ALL SELECT id, name FROM crews WHERE id IN (SELECT value FROM json_each(@ids))
-      UNION ALL SELECT id, title FROM decks WHERE id IN (SELECT value FROM json_each(@ids))
-      UNION ALL SELECT id, title FROM checks WHERE id IN (SELECT value FROM json_each(@ids))
-      UNION ALL SELECT id, name FROM target_types WHERE id IN (SELECT value FROM json_each(@ids))`)
-      .all({ ids: JSON.stringify(ids) }) as { id: string, name: string }[]).map(r => [r.id, r.name]))
+    const found = new Map([
+      ...db.select({ id: tables.users.id, name: tables.users.name }).from(tables.users).where(inArray(tables.users.id, ids)).all(),
+      ...db.select({ id: tables.crews.id, name: tables.crews.name }).from(tables.crews).where(inArray(tables.crews.id, ids)).all(),
+      ...db.select({ id: tables.decks.id, name: tables.decks.title }).from(tables.decks).where(inArray(tables.decks.id, ids)).all(),
+      ...db.select({ id: tables.checks.id, name: tables.checks.title }).from(tables.checks).where(inArray(tables.checks.id, ids)).all(),
+      ...db.select({ id: tables.targetTypes.id, name: tables.targetTypes.name }).from(tables.targetTypes).where(inArray(tables.targetTypes.id, ids)).all(),
+    ].map(r => [r.id, r.name]))
     for (const e of entries) {
       for (const id of [...(e.subjectId ? [e.subjectId] : []), ...idsIn(e.detail)]) {
         const name = found.get(id)
@@ -123,5 +137,6 @@ export function listAudit(opts: { q: string, action: string, page: number, size:
 }
 
 export function auditActions(): { name: string, count: number }[] {
-  return useSqlite().prepare('SELECT action AS name, count(*) AS count FROM audit_log GROUP BY action ORDER BY action').all() as { name: string, count: number }[]
+  const a = tables.auditLog
+  return useDb().select({ name: a.action, count: count() }).from(a).groupBy(a.action).orderBy(asc(a.action)).all()
 }

@@ -14,7 +14,8 @@ import type {
 } from '../../shared/schemas/checks'
 import type { IssuedWatch } from '../../shared/types/drill'
 import type { Actor } from '../utils/gate'
-import { crewsLedOver, hasRole } from '../utils/gate'
+import { hasRole } from '../utils/gate'
+import { crewsLedOver } from './policy'
 import { useSqlite } from '../utils/db'
 import { allOrNothing } from '../utils/group-commit'
 import { newId } from '../utils/ids'
@@ -124,9 +125,9 @@ function assignedToActor(sqlite: Database, actor: Actor, deckId: string) {
 }
 
 // A lead's reach over an attempt: the check's deck is assigned to a crew the actor leads that the
-// trainee is in (crewsLedOver in gate.ts); an attempt of another crew is out of reach.
+// trainee is in (crewsLedOver in policy.ts); an attempt of another crew is out of reach.
 function leadsAttempt(sqlite: Database, actor: Actor, a: AttemptRow) {
-  const led = crewsLedOver(sqlite, actor, a.userId)
+  const led = crewsLedOver(actor, a.userId)
   if (!led.length) return false
   return !!statement(sqlite, `SELECT 1 FROM checks c JOIN deck_crews dc ON dc.deck_id = c.deck_id
     WHERE c.id = ? AND dc.crew_id IN (SELECT value FROM json_each(?)) LIMIT 1`).get(a.checkId, JSON.stringify(led))

@@ -1,7 +1,8 @@
 // Each crew's FSRS parameters on the database: the fit (weekly, and when an instructor or lead
 // asks) runs in a child process (fit-process.ts; the route answers before it ends, and a crash of
 // the optimizer fails that fit only), its state and figures in `crew_fsrs_params`, and the weights
-// the scheduler uses for a trainee's call. Plain imports, so the seed and scripts can use it.
+// the scheduler uses for a trainee's call. Plain imports, so the seed and scripts can use it; it
+// works on the handle it is given through statement() (server/utils/sql.ts): one read is on every call.
 import type { Database } from 'better-sqlite3'
 import { default_w } from 'ts-fsrs'
 import { byTrack, calibration, firstCurve, forgettingByGap, MIN_FIT_CALLS, MIN_PERSON_CALLS } from '../core/scheduling/fit'
@@ -39,7 +40,7 @@ const CREW_LOGS = `SELECT c.track_id AS trackId, c.called_at AS calledAt, c.grad
   WHERE c.track_id IS NOT NULL ORDER BY c.track_id, c.called_at`
 
 export function crewReviewLogs(sqlite: Database, crewId: string): (ReviewLog & { userId: string })[] {
-  return (sqlite.prepare(CREW_LOGS).all(crewId) as { trackId: string, calledAt: number, grade: CallGrade, userId: string }[])
+  return statement<{ trackId: string, calledAt: number, grade: CallGrade, userId: string }, [string]>(sqlite, CREW_LOGS).all(crewId)
 }
 
 // ---------------------------------------------------------------- the weights a call uses
@@ -84,7 +85,7 @@ const running = new Map<string, Promise<void>>()
 export function startCrewFit(sqlite: Database, crewId: string, requestedBy: string | null, nowMs = Date.now()): Promise<void> {
   const busy = running.get(crewId)
   if (busy) return busy
-  sqlite.prepare(`INSERT INTO crew_fsrs_params (crew_id, status, progress, message, requested_by, started_at, updated_at)
+  statement<unknown, [string, string | null, number, number]>(sqlite, `INSERT INTO crew_fsrs_params (crew_id, status, progress, message, requested_by, started_at, updated_at)
     VALUES (?, 'running', 0, NULL, ?, ?, ?)
     ON CONFLICT (crew_id) DO UPDATE SET status = 'running', progress = 0, message = NULL, requested_by = excluded.requested_by,
     started_at = excluded.started_at, updated_at = excluded.updated_at`).run(crewId, requestedBy, nowMs, nowMs)
@@ -94,7 +95,7 @@ export function startCrewFit(sqlite: Database, crewId: string, requestedBy: stri
 }
 
 async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
-  const setProgress = sqlite.prepare('UPDATE crew_fsrs_params SET progress = ?, updated_at = ? WHERE crew_id = ?')
+  const setProgress = statement<unknown, [number, number, string]>(sqlite, 'UPDATE crew_fsrs_params SET progress = ?, updated_at = ? WHERE crew_id = ?')
   let last = 0
   try {
     // let the route answer before the calls are read
@@ -110,7 +111,7 @@ async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
     })
     const now = Date.now()
     if (out.status === 'too-few') {
-      sqlite.prepare(`UPDATE crew_fsrs_params SET status = 'too-few', progress = 1, calls = ?, tracks = ?, needed = ?,
+      statement(sqlite, `UPDATE crew_fsrs_params SET status = 'too-few', progress = 1, calls = ?, tracks = ?, needed = ?,
         message = ?, finished_at = ?, updated_at = ? WHERE crew_id = ?`)
         .run(out.calls, out.tracks, out.needed, `${out.needed} more calls are needed before a fit is tried; the crew stays on the default parameters.`, now, now, crewId)
       return
@@ -118,7 +119,7 @@ async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
     const message = out.adopted
       ? 'The fitted parameters predicted unseen calls better than the defaults and are now used for this crew.'
       : 'The fitted parameters did not predict unseen calls better than the defaults; the crew stays on the defaults.'
-    sqlite.prepare(`UPDATE crew_fsrs_params SET status = 'done', progress = 1, calls = ?, tracks = ?, needed = 0, message = ?,
+    statement(sqlite, `UPDATE crew_fsrs_params SET status = 'done', progress = 1, calls = ?, tracks = ?, needed = 0, message = ?,
       default_log_loss = ?, default_rmse = ?, fitted_log_loss = ?, fitted_rmse = ?, fitted_weights = ?, adopted_weights = ?,
       finished_at = ?, updated_at = ? WHERE crew_id = ?`)
       .run(out.calls, out.tracks, message, out.defaults.logLoss, out.defaults.rmse, out.fitted.logLoss, out.fitted.rmse,
@@ -126,7 +127,7 @@ async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
   }
   catch (error) {
     const now = Date.now()
-    sqlite.prepare(`UPDATE crew_fsrs_params SET status = 'failed', message = ?, finished_at = ?, updated_at = ? WHERE crew_id = ?`)
+    statement(sqlite, `UPDATE crew_fsrs_params SET status = 'failed', message = ?, finished_at = ?, updated_at = ? WHERE crew_id = ?`)
       .run(`The fit failed (${error instanceof Error ? error.message : String(error)}); the crew keeps the parameters it had.`, now, now, crewId)
   }
   finally {
@@ -136,8 +137,8 @@ async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
 
 /** Fits every crew in turn (the weekly task). */
 export async function fitAllCrews(sqlite: Database): Promise<{ crews: number }> {
-  const crews = sqlite.prepare('SELECT id FROM crews ORDER BY id').all() as { id: string }[]
-  for (const crew of crews) await startCrewFit(sqlite, crew.id, null)
+  const crews = statement<string, []>(sqlite, 'SELECT id FROM crews ORDER BY id').pluck().all()
+  for (const crewId of crews) await startCrewFit(sqlite, crewId, null)
   return { crews: crews.length }
 }
 
@@ -146,7 +147,7 @@ export async function fitAllCrews(sqlite: Database): Promise<{ crews: number }> 
 const CURVE_DAYS = Array.from({ length: 31 }, (_, i) => i)
 
 export function crewFitView(sqlite: Database, crewId: string): CrewFitView {
-  const row = sqlite.prepare(SELECT_ROW).get(crewId) as Row | undefined
+  const row = statement<Row, [string]>(sqlite, SELECT_ROW).get(crewId)
   const fittedWeights = row?.fittedWeights ? JSON.parse(row.fittedWeights) as number[] : null
   const logs = crewReviewLogs(sqlite, crewId)
   const tracks = byTrack(logs)
@@ -178,7 +179,7 @@ function peopleOf(sqlite: Database, logs: readonly (ReviewLog & { userId: string
     if (list) list.push(log)
     else byUser.set(log.userId, [log])
   }
-  const nameOf = sqlite.prepare('SELECT name FROM users WHERE id = ?')
+  const nameOf = statement<string, [string]>(sqlite, 'SELECT name FROM users WHERE id = ?').pluck()
   return [...byUser].map(([userId, own]) => {
     const tracks = byTrack(own)
     // a prediction is made for every call after a track's first
@@ -186,7 +187,7 @@ function peopleOf(sqlite: Database, logs: readonly (ReviewLog & { userId: string
     const enough = calls >= MIN_PERSON_CALLS
     return {
       userId,
-      name: (nameOf.get(userId) as { name: string } | undefined)?.name ?? 'Unknown',
+      name: nameOf.get(userId) ?? 'Unknown',
       calls,
       needed: Math.max(0, MIN_PERSON_CALLS - calls),
       forgetting: enough ? forgettingByGap(tracks, inUse) : null,

@@ -5,6 +5,7 @@ import { ASPECTS, CONDITIONS } from '#shared/utils/conditions'
 import { featuresProblem, settingsConflict } from '#shared/schemas/decks'
 import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
 import type { Actor } from '../utils/gate'
+import { buildsDeck, overseesDeck } from './policy'
 
 type DeckRow = typeof tables.decks.$inferSelect
 type TypeRow = typeof tables.targetTypes.$inferSelect
@@ -53,11 +54,11 @@ export async function requireVisibleDeck(event: H3Event, deckId: string): Promis
   return { actor, deck }
 }
 
-/** The deck if the actor is its owner (an instructor), else 403, or 404 when they cannot see it. */
+/** The deck if the actor builds it (buildsDeck in policy.ts), else 403, or 404 when they cannot see it. */
 export async function requireOwnDeck(event: H3Event, deckId: string): Promise<{ actor: Actor, deck: DeckRow }> {
   await requireRole(event, 'instructor')
   const found = await requireVisibleDeck(event, deckId)
-  if (found.deck.ownerId !== found.actor.id) throw createError({ statusCode: 403, message: 'Only the instructor who owns this deck can change it.' })
+  if (!buildsDeck(found.actor, found.deck)) throw createError({ statusCode: 403, message: 'Only the instructor who owns this deck can change it.' })
   return found
 }
 
@@ -120,7 +121,7 @@ function typesWithViews(deckId: string) {
 // Those who build or manage a deck: its owner and admins. Only they get its renderings' addresses
 // (content hashes): a trainee who could list them could map a sighting's picture to its target type.
 export function managesDeck(actor: Actor, deck: DeckRow) {
-  return hasRole(actor, 'admin') || deck.ownerId === actor.id
+  return overseesDeck(actor, deck)
 }
 
 /**
@@ -537,4 +538,20 @@ export function copyTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
   catch (e) { uniqueName(e) }
   audit(actor, 'target-type.copy', 'target_type', id, { deckId: deck.id, from: source.id, views: views.length })
   return id
+}
+
+// ---------------------------------------------------------------- for the routes (issue 16, item 4)
+
+/** The deck as the builder shows it, read again after a change. */
+export function deckBuilderDetailOf(deckId: string) {
+  const deck = useDb().select().from(tables.decks).where(eq(tables.decks.id, deckId)).get()
+  if (!deck) throw notFound()
+  return deckBuilderDetail(deck)
+}
+
+/** A target type of this deck, for an upload of its views: 404 for an unknown one or one of another deck. */
+export function targetTypeOfDeck(deck: DeckRow, typeId: string): TypeRow {
+  const type = useDb().select().from(tables.targetTypes).where(eq(tables.targetTypes.id, typeId)).get()
+  if (!type || type.deckId !== deck.id) throw createError({ statusCode: 404, message: 'targetTypeId: No such target type in this deck.' })
+  return type
 }

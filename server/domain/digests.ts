@@ -9,6 +9,7 @@ import type { DigestRunResult } from '../../shared/types/stats'
 import type { DigestKind } from '../../shared/schemas/stats'
 import { useSqlite } from '../utils/db'
 import { newId } from '../utils/ids'
+import { statement } from '../utils/sql'
 import { appUrl, sendMail } from '../utils/mail'
 import { loadPersonCalls, readinessOnDecks } from './stats'
 
@@ -40,12 +41,12 @@ export function digestDay(nowMs: number): string {
 
 function claimer(sqlite: Database, kind: DigestKind, actorId: string | null) {
   const action = `digest.${kind}`
-  const seen = sqlite.prepare(`SELECT 1 FROM audit_log WHERE action = ? AND subject_id = ? AND json_extract(detail, '$.period') = ?
-    AND json_extract(detail, '$.to') = ? LIMIT 1`).pluck()
-  const insert = sqlite.prepare('INSERT INTO audit_log (id, actor_id, action, subject_type, subject_id, detail, created_at) VALUES (?, ?, ?, ?, ?, ?, ?)')
+  const seen = statement<number, [string, string, string, string]>(sqlite, `SELECT 1 FROM audit_log WHERE action = ? AND subject_id = ? AND json_extract(detail, '$.period') = ?
+    AND json_extract(detail, '$.to') = ? LIMIT 1`)
+  const insert = statement<unknown, [string, string | null, string, string, string, string, number]>(sqlite, 'INSERT INTO audit_log (id, actor_id, action, subject_type, subject_id, detail, created_at) VALUES (?, ?, ?, ?, ?, ?, ?)')
   // Check and record in one immediate transaction, so two runs at once cannot both send.
   return sqlite.transaction((subjectType: string, subjectId: string, period: string, to: string): boolean => {
-    if (seen.get(action, subjectId, period, to)) return false
+    if (seen.pluck().get(action, subjectId, period, to)) return false
     insert.run(newId(), actorId, action, subjectType, subjectId, JSON.stringify({ period, to }), Date.now())
     return true
   })
@@ -55,23 +56,23 @@ interface DeckRow { id: string, title: string, hesitationMs: number }
 
 interface CrewRow { id: string, name: string, minAccuracy: number, minCallsPerTrack: number, windowDays: number, offlineCounts: number }
 
-// The statements a weekly digest reads, prepared once per run.
+// The statements a weekly digest reads.
 function digestReader(sqlite: Database) {
-  const decksOf = sqlite.prepare(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
+  const decksOf = statement<DeckRow, [string]>(sqlite, `SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
     WHERE dc.crew_id = ? AND d.status = 'published' ORDER BY d.title, d.id`)
-  const traineesOf = sqlite.prepare(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
+  const traineesOf = statement<{ id: string, name: string }, [string]>(sqlite, `SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
     WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee') ORDER BY u.name`)
-  const keysOf = sqlite.prepare(`SELECT DISTINCT v.target_type_id AS targetTypeId, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id = ?`)
-  const lastCall = sqlite.prepare(`SELECT called_at FROM calls WHERE user_id = ? AND kind = 'watch' AND called_at < ? AND deck_id IN (SELECT value FROM json_each(?))
-    ORDER BY called_at DESC LIMIT 1`).pluck()
+  const keysOf = statement<{ targetTypeId: string, aspect: string }, [string]>(sqlite, `SELECT DISTINCT v.target_type_id AS targetTypeId, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id = ?`)
+  const lastCall = statement<number, [string, number, string]>(sqlite, `SELECT called_at FROM calls WHERE user_id = ? AND kind = 'watch' AND called_at < ?
+    AND deck_id IN (SELECT value FROM json_each(?)) ORDER BY called_at DESC LIMIT 1`)
   // One crew's digest of the week [weekStart, weekEnd), counting calls made before `asOf`.
   return (crew: CrewRow, weekStart: number, weekEnd: number, base: string, asOf = weekEnd) => {
-    const decks = decksOf.all(crew.id) as DeckRow[]
+    const decks = decksOf.all(crew.id)
     const deckIds = decks.map(d => d.id)
-    const keys = new Map(decks.map(d => [d.id, keysOf.all(d.id) as { targetTypeId: string, aspect: string }[]]))
+    const keys = new Map(decks.map(d => [d.id, keysOf.all(d.id)]))
     const standard = { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays, offlineCounts: crew.offlineCounts === 1 }
     const until = Math.min(asOf, weekEnd)
-    const people: DigestPerson[] = (traineesOf.all(crew.id) as { id: string, name: string }[]).map((t) => {
+    const people: DigestPerson[] = traineesOf.all(crew.id).map((t) => {
       const calls = loadPersonCalls(sqlite, t.id, deckIds, weekStart - crew.windowDays * DAY_MS, until - 1)
       const weekAgo = calls.filter(c => c.calledAt <= weekStart)
       return {
@@ -80,7 +81,7 @@ function digestReader(sqlite: Database) {
         readyWeekAgo: readinessOnDecks(weekAgo, decks, keys, standard, weekStart).ready,
         accuracyNow: windowStats(calls, until, crew.windowDays).accuracy,
         accuracyWeekAgo: windowStats(weekAgo, weekStart, crew.windowDays).accuracy,
-        lastCallAt: deckIds.length ? (lastCall.get(t.id, until, JSON.stringify(deckIds)) as number | undefined) ?? null : null,
+        lastCallAt: deckIds.length ? lastCall.pluck().get(t.id, until, JSON.stringify(deckIds)) ?? null : null,
       }
     })
     return weeklyLeadDigest({ crewName: crew.name, people, weekStart, weekEnd, crewUrl: `${base}/crews/${crew.id}` })
@@ -96,14 +97,14 @@ export async function runWeeklyDigests(nowMs: number, opts: DigestOptions = {}):
   const { weekStart, weekEnd, period } = digestWeek(nowMs)
   const base = opts.baseUrl ?? appUrl()
   const claim = claimer(sqlite, 'weekly', opts.actorId ?? null)
-  const crews = sqlite.prepare(`${CREWS_SQL} ORDER BY name`).all() as CrewRow[]
-  const leadsOf = sqlite.prepare(`SELECT u.id, u.name, u.email FROM memberships m JOIN users u ON u.id = m.user_id
+  const crews = statement<CrewRow, []>(sqlite, `${CREWS_SQL} ORDER BY name`).all()
+  const leadsOf = statement<{ id: string, name: string, email: string }, [string]>(sqlite, `SELECT u.id, u.name, u.email FROM memberships m JOIN users u ON u.id = m.user_id
     WHERE m.crew_id = ? AND u.disabled = 0 AND u.digest_opt_out = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'lead') ORDER BY u.name`)
   const digestOf = digestReader(sqlite)
 
   const result: DigestRunResult = { kind: 'weekly', period, sent: 0, alreadySent: 0, skipped: 0 }
   for (const crew of crews) {
-    const leads = leadsOf.all(crew.id) as { id: string, name: string, email: string }[]
+    const leads = leadsOf.all(crew.id)
     if (!leads.length) {
       result.skipped++
       continue
@@ -136,8 +137,8 @@ export function previewWeeklyDigest(leadId: string, crewIds: string[], nowMs: nu
   // The run on the coming Monday covers the week now is in.
   const { weekStart, weekEnd } = digestWeek(nowMs + 7 * DAY_MS)
   const sendsAt = weekEnd + 6 * 60 * 60 * 1000
-  const optedOut = (sqlite.prepare('SELECT digest_opt_out FROM users WHERE id = ?').pluck().get(leadId) as number) === 1
-  const crews = sqlite.prepare(`${CREWS_SQL} WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name`).all(JSON.stringify(crewIds)) as CrewRow[]
+  const optedOut = statement<number, [string]>(sqlite, 'SELECT digest_opt_out FROM users WHERE id = ?').pluck().get(leadId) === 1
+  const crews = statement<CrewRow, [string]>(sqlite, `${CREWS_SQL} WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name`).all(JSON.stringify(crewIds))
   const digestOf = digestReader(sqlite)
   return {
     optedOut,
@@ -157,16 +158,16 @@ export async function runDailyReminders(nowMs: number, opts: DigestOptions = {})
   const period = digestDay(nowMs)
   const base = opts.baseUrl ?? appUrl()
   const claim = claimer(sqlite, 'daily', opts.actorId ?? null)
-  const trainees = sqlite.prepare(`SELECT u.id, u.name, u.email, u.reminders_opt_out AS optOut FROM users u
+  const trainees = statement<{ id: string, name: string, email: string, optOut: number }, []>(sqlite, `SELECT u.id, u.name, u.email, u.reminders_opt_out AS optOut FROM users u
     WHERE u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee') ORDER BY u.name`)
-    .all() as { id: string, name: string, email: string, optOut: number }[]
+    .all()
   // Tracks due on the decks assigned to the trainee's crews.
-  const due = sqlite.prepare(`SELECT COUNT(*) FROM tracks t WHERE t.user_id = ? AND t.due <= ? AND t.deck_id IN (
-    SELECT dc.deck_id FROM deck_crews dc JOIN memberships m ON m.crew_id = dc.crew_id WHERE m.user_id = ?)`).pluck()
+  const due = statement<number, [string, number, string]>(sqlite, `SELECT COUNT(*) FROM tracks t WHERE t.user_id = ? AND t.due <= ? AND t.deck_id IN (
+    SELECT dc.deck_id FROM deck_crews dc JOIN memberships m ON m.crew_id = dc.crew_id WHERE m.user_id = ?)`)
 
   const result: DigestRunResult = { kind: 'daily', period, sent: 0, alreadySent: 0, skipped: 0 }
   for (const t of trainees) {
-    const tracksDue = t.optOut ? 0 : due.get(t.id, nowMs, t.id) as number
+    const tracksDue = t.optOut ? 0 : due.pluck().get(t.id, nowMs, t.id)!
     if (!tracksDue) {
       result.skipped++
       continue

@@ -1,4 +1,5 @@
-import { and, eq, isNull } from 'drizzle-orm'
+// Invitations: who may invite whom, the one working link to an address, withdrawing, accepting.
+import { and, asc, desc, eq, isNull } from 'drizzle-orm'
 import type { Role } from '#shared/types/roles'
 import { ROLE_LABELS } from '#shared/types/roles'
 import type { Actor } from '../utils/gate'
@@ -64,11 +65,13 @@ export interface PendingInvitation {
 // Invitations not used, withdrawn or replaced, newest first (expired ones too: they can be sent again).
 export function pendingInvitations(): PendingInvitation[] {
   const now = Date.now()
-  const rows = useSqlite().prepare(`SELECT i.id, i.email, i.role, i.crew_id AS crewId, c.name AS crewName, u.name AS invitedBy,
-    i.created_at AS createdAt, i.expires_at AS expiresAt FROM invitations i LEFT JOIN crews c ON c.id = i.crew_id
-    LEFT JOIN users u ON u.id = i.invited_by WHERE i.used_at IS NULL AND i.revoked_at IS NULL ORDER BY i.created_at DESC, i.id`)
-    .all() as Omit<PendingInvitation, 'expired'>[]
-  return rows.map(r => ({ ...r, expired: r.expiresAt <= now }))
+  const i = tables.invitations
+  return useDb().select({
+    id: i.id, email: i.email, role: i.role, crewId: i.crewId, crewName: tables.crews.name, invitedBy: tables.users.name,
+    createdAt: i.createdAt, expiresAt: i.expiresAt,
+  }).from(i).leftJoin(tables.crews, eq(tables.crews.id, i.crewId)).leftJoin(tables.users, eq(tables.users.id, i.invitedBy))
+    .where(and(isNull(i.usedAt), isNull(i.revokedAt))).orderBy(desc(i.createdAt), asc(i.id)).all()
+    .map(r => ({ ...r, role: r.role as Role, expired: r.expiresAt <= now }))
 }
 
 export function pendingInvitation(id: string) {
@@ -77,4 +80,40 @@ export function pendingInvitation(id: string) {
   if (inv.usedAt) throw createError({ statusCode: 409, message: 'This invitation was already accepted; the person has an account.' })
   if (inv.revokedAt) throw createError({ statusCode: 409, message: inv.revokedReason === 'replaced' ? 'A newer invitation to this address replaced this one.' : 'This invitation was already withdrawn.' })
   return inv
+}
+
+/** Withdraws a waiting invitation (an admin's act): its link then says so when opened. */
+export function withdrawInvitation(actor: Actor, id: string) {
+  const inv = pendingInvitation(id)
+  const r = useDb().update(tables.invitations).set({ revokedAt: Date.now(), revokedReason: 'revoked' })
+    .where(and(eq(tables.invitations.id, id), isNull(tables.invitations.usedAt), isNull(tables.invitations.revokedAt))).run()
+  if (r.changes !== 1) throw createError({ statusCode: 409, message: 'This invitation was answered or withdrawn meanwhile. Reload the list.' })
+  audit(actor, 'invite.revoke', 'invitation', id, { email: inv.email, role: inv.role, crewId: inv.crewId })
+}
+
+/** What the invitation page shows before the form: to whom, as what, into which crew, from whom. */
+export function invitationPreview(inv: typeof tables.invitations.$inferSelect) {
+  const db = useDb()
+  const crew = inv.crewId ? db.select({ name: tables.crews.name }).from(tables.crews).where(eq(tables.crews.id, inv.crewId)).get() : undefined
+  const by = db.select({ name: tables.users.name }).from(tables.users).where(eq(tables.users.id, inv.invitedBy)).get()
+  return { email: inv.email, role: inv.role, crewName: crew?.name ?? null, invitedBy: by?.name ?? null, expiresAt: inv.expiresAt }
+}
+
+/**
+ * Claims the invitation and creates the account together: a second use finds it claimed ('used'),
+ * and a second invitation to the same address, accepted at the same moment, finds the account made
+ * ('taken'). Answers the new account's id when it was created.
+ */
+export function acceptInvitation(inv: typeof tables.invitations.$inferSelect, name: string, passwordHash: string): { userId: string } | 'taken' | 'used' {
+  const userId = newId()
+  return useDb().transaction((tx) => {
+    if (tx.select({ id: tables.users.id }).from(tables.users).where(eq(tables.users.email, inv.email)).get()) return 'taken'
+    const r = tx.update(tables.invitations).set({ usedAt: Date.now() })
+      .where(and(eq(tables.invitations.id, inv.id), isNull(tables.invitations.usedAt), isNull(tables.invitations.revokedAt))).run()
+    if (r.changes !== 1) return 'used'
+    tx.insert(tables.users).values({ id: userId, email: inv.email, name, passwordHash }).run()
+    tx.insert(tables.userRoles).values({ userId, role: inv.role }).run()
+    if (inv.crewId) tx.insert(tables.memberships).values({ crewId: inv.crewId, userId }).run()
+    return { userId }
+  })
 }

@@ -18,11 +18,11 @@ export interface ScanDrillView {
   updatedAt: number
 }
 
-const noDrill = () => createError({ statusCode: 404, message: 'No such scan drill, or it is not assigned to your crews.' })
+const noScanDrill = () => createError({ statusCode: 404, message: 'No such scan drill, or it is not assigned to your crews.' })
 
-function drillCrews(drillIds: string[]) {
-  if (!drillIds.length) return new Map<string, string[]>()
-  const rows = useDb().select().from(tables.scanDrillCrews).where(inArray(tables.scanDrillCrews.drillId, drillIds)).all()
+function scanDrillCrewsOf(scanDrillIds: string[]) {
+  if (!scanDrillIds.length) return new Map<string, string[]>()
+  const rows = useDb().select().from(tables.scanDrillCrews).where(inArray(tables.scanDrillCrews.drillId, scanDrillIds)).all()
   const map = new Map<string, string[]>()
   for (const r of rows) map.set(r.drillId, [...(map.get(r.drillId) ?? []), r.crewId])
   return map
@@ -33,7 +33,7 @@ export function listScanDrills(actor: Actor): ScanDrillView[] {
   const db = useDb()
   const admin = hasRole(actor, 'admin')
   let rows = db.select().from(tables.scanDrills).orderBy(desc(tables.scanDrills.updatedAt)).all()
-  const crews = drillCrews(rows.map(r => r.id))
+  const crews = scanDrillCrewsOf(rows.map(r => r.id))
   if (!admin) {
     rows = rows.filter(r => (r.createdBy === actor.id && hasRole(actor, 'instructor'))
       || (crews.get(r.id) ?? []).some(c => actor.crewIds.includes(c)))
@@ -56,13 +56,13 @@ export function visibleScanDrill(actor: Actor, id: string): ScanDrillView | null
 
 // A drill the actor may change: their own, or any for an admin.
 function ownScanDrill(actor: Actor, id: string) {
-  const drill = useDb().select().from(tables.scanDrills).where(eq(tables.scanDrills.id, id)).get()
-  const visible = drill && (hasRole(actor, 'admin') || drill.createdBy === actor.id || visibleScanDrill(actor, id))
-  if (!drill || !visible) throw noDrill()
-  if (!hasRole(actor, 'admin') && drill.createdBy !== actor.id) {
+  const scanDrill = useDb().select().from(tables.scanDrills).where(eq(tables.scanDrills.id, id)).get()
+  const visible = scanDrill && (hasRole(actor, 'admin') || scanDrill.createdBy === actor.id || visibleScanDrill(actor, id))
+  if (!scanDrill || !visible) throw noScanDrill()
+  if (!hasRole(actor, 'admin') && scanDrill.createdBy !== actor.id) {
     throw createError({ statusCode: 403, message: 'Only the instructor who made this drill (or an admin) can change it.' })
   }
-  return drill
+  return scanDrill
 }
 
 export function createScanDrill(actor: Actor, title: string, settings: ScanDrillSettingsT): ScanDrillView {
@@ -142,12 +142,12 @@ export interface ScanPassStart {
 export function startScanPass(actor: Actor, body: ScanPassStartBodyT): ScanPassStart {
   let settings: ScanDrillSettingsT = PRACTICE_SCAN_SETTINGS
   if (body.drillId) {
-    const drill = visibleScanDrill(actor, body.drillId)
-    if (!drill) throw noDrill()
+    const scanDrill = visibleScanDrill(actor, body.drillId)
+    if (!scanDrill) throw noScanDrill()
     if (body.seed !== undefined) {
       throw createError({ statusCode: 400, message: 'seed: an assigned drill takes the seed the server draws; choose a seed for the practice sector only.' })
     }
-    settings = drill.settings
+    settings = scanDrill.settings
   }
   settings = { ...settings, lengthS: Math.min(settings.lengthS, body.lengthS ?? settings.lengthS) }
   const seed = body.seed ?? randomInt(0, 2 ** 32)

@@ -1,8 +1,8 @@
 // Loading of calls for the leads' and instructors' views, and the calls into server/core/reports.
-// Plain prepared statements on the one SQLite handle: the crew table reads tens of thousands of
-// calls per request, so rows come back as arrays and only the columns the reports use.
-import type { Database, Statement } from 'better-sqlite3'
-import type { H3Event } from 'h3'
+// Raw SQL through statement() (server/utils/sql.ts) on the one SQLite handle, the domain's idiom
+// for hot statements: the crew table reads tens of thousands of calls per request, so rows come
+// back as arrays and only the columns the reports use. Who may read them: policy.ts.
+import type { Database } from 'better-sqlite3'
 import { createError } from 'h3'
 import { DAY_MS, callsSince, personStats, statsBy } from '../core/reports/crew-stats'
 import type { BreakdownRow, CallRecord } from '../core/reports/crew-stats'
@@ -17,8 +17,7 @@ import { trendVerdict } from '../../shared/utils/trend'
 import type {
   BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PairSide, PersonReport, SideBySidePair, TrendFigures,
 } from '../../shared/types/stats'
-import type { Actor } from '../utils/gate'
-import { crewsLedOver, hasRole, requireActor } from '../utils/gate'
+import { statement } from '../utils/sql'
 
 export interface StatsFilters {
   deckId?: string
@@ -33,60 +32,51 @@ interface DeckRow { id: string, title: string, hesitationMs: number }
 // ---------------------------------------------------------------- statements
 
 const CALL_COLUMNS = 'deck_id, target_type_id, called_type_id, aspect, condition, correct, grade, anticipation, latency_ms, called_at, offline'
-// Drill calls only: a check's calls are its own measure and show on the check pages alone. The crew
-// table's covering indexes hold drill calls only (partial indexes WHERE kind = 'watch').
-const DRILL = 'kind = \'watch\''
+// Watch calls only: a check's calls are its own measure and show on the check pages alone. The crew
+// table's covering indexes hold watch calls only (partial indexes WHERE kind = 'watch').
+const WATCH_CALLS = 'kind = \'watch\''
 
-function statementsFor(sqlite: Database) {
-  const p = (s: string) => sqlite.prepare(s)
-  return {
-    crew: p(`SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
-      offline_counts AS offlineCounts FROM crews WHERE id = ?`),
-    // Published decks only: a draft is shown to nobody but its instructors, and is not drilled.
-    crewDecks: p(`SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
-      WHERE dc.crew_id = ? AND d.status = 'published' ORDER BY d.title, d.id`),
-    trainees: p(`SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
-      WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee')
-      ORDER BY u.name, u.id`),
-    // Every (target type, aspect) pair with a view: what the standard asks to be called.
-    trackKeys: p(`SELECT DISTINCT v.target_type_id, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id
-      WHERE t.deck_id = ?`),
-    userCalls: p(`SELECT ${CALL_COLUMNS} FROM calls WHERE user_id = ? AND ${DRILL} AND called_at >= ? AND called_at <= ?
-      AND deck_id IN (SELECT value FROM json_each(?))`).raw(),
-    lastCall: p(`SELECT called_at FROM calls WHERE user_id = ? AND ${DRILL} AND called_at <= ? AND deck_id IN (SELECT value FROM json_each(?))
-      ORDER BY called_at DESC LIMIT 1`).pluck(),
-    tracksDue: p(`SELECT COUNT(*) FROM tracks WHERE user_id = ? AND due <= ? AND deck_id IN (SELECT value FROM json_each(?))`).pluck(),
-    typeNames: p(`SELECT t.id, t.name FROM target_types t WHERE t.deck_id IN (SELECT value FROM json_each(?)) ORDER BY t.name, t.id`),
-    typeName: p('SELECT name FROM target_types WHERE id = ?').pluck(),
-    crewDeckCalls: p(`SELECT target_type_id, called_type_id FROM calls WHERE deck_id = ? AND ${DRILL} AND called_at >= ? AND called_at <= ?
-      AND user_id IN (SELECT user_id FROM memberships WHERE crew_id = ?)`).raw(),
-    deck: p('SELECT id, title, owner_id AS ownerId, hesitation_ms AS hesitationMs FROM decks WHERE id = ?'),
-    deckCrews: p(`SELECT c.id, c.name FROM deck_crews dc JOIN crews c ON c.id = dc.crew_id WHERE dc.deck_id = ? ORDER BY c.name`),
-    deckCalls: p(`SELECT target_type_id, called_type_id, aspect, condition FROM calls WHERE deck_id = ? AND ${DRILL} AND called_at >= ? AND called_at <= ?
-      AND user_id IN (SELECT m.user_id FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id WHERE dc.deck_id = ?)`).raw(),
-    user: p('SELECT id, name, reminders_opt_out AS remindersOptOut FROM users WHERE id = ?'),
-    userCrews: p(`SELECT c.id, c.name, c.min_accuracy AS minAccuracy, c.min_calls_per_track AS minCallsPerTrack, c.window_days AS windowDays,
-      c.offline_counts AS offlineCounts FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`),
-    baseline: p('SELECT simple_ms AS simpleMs, choice_ms AS choiceMs, created_at AS at FROM tap_baselines WHERE user_id = ? ORDER BY created_at DESC LIMIT 1'),
-    ownsDeckInCrew: p(`SELECT 1 FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id WHERE dc.crew_id = ? AND d.owner_id = ? LIMIT 1`).pluck(),
-    ownsDeckOfPerson: p(`SELECT 1 FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id JOIN decks d ON d.id = dc.deck_id
-      WHERE m.user_id = ? AND d.owner_id = ? LIMIT 1`).pluck(),
-  }
-}
+// The reports' statements, prepared once per handle through statement() (server/utils/sql.ts): the
+// crew table and the person page read tens of thousands of calls a request, so rows come back as
+// arrays (.raw()) or single values (.pluck()), set on every use, and only the columns the reports use.
+const SQL = {
+  crew: `SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
+    offline_counts AS offlineCounts FROM crews WHERE id = ?`,
+  // Published decks only: a draft is shown to nobody but its instructors, and is not in any watch.
+  crewDecks: `SELECT d.id, d.title, d.hesitation_ms AS hesitationMs FROM deck_crews dc JOIN decks d ON d.id = dc.deck_id
+    WHERE dc.crew_id = ? AND d.status = 'published' ORDER BY d.title, d.id`,
+  trainees: `SELECT u.id, u.name FROM memberships m JOIN users u ON u.id = m.user_id
+    WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee')
+    ORDER BY u.name, u.id`,
+  // Every (target type, aspect) pair with a view: what the standard asks to be called.
+  trackKeys: `SELECT DISTINCT v.target_type_id, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id
+    WHERE t.deck_id = ?`,
+  userCalls: `SELECT ${CALL_COLUMNS} FROM calls WHERE user_id = ? AND ${WATCH_CALLS} AND called_at >= ? AND called_at <= ?
+    AND deck_id IN (SELECT value FROM json_each(?))`,
+  lastCall: `SELECT called_at FROM calls WHERE user_id = ? AND ${WATCH_CALLS} AND called_at <= ? AND deck_id IN (SELECT value FROM json_each(?))
+    ORDER BY called_at DESC LIMIT 1`,
+  tracksDue: `SELECT COUNT(*) FROM tracks WHERE user_id = ? AND due <= ? AND deck_id IN (SELECT value FROM json_each(?))`,
+  typeNames: `SELECT t.id, t.name FROM target_types t WHERE t.deck_id IN (SELECT value FROM json_each(?)) ORDER BY t.name, t.id`,
+  typeName: 'SELECT name FROM target_types WHERE id = ?',
+  crewDeckCalls: `SELECT target_type_id, called_type_id FROM calls WHERE deck_id = ? AND ${WATCH_CALLS} AND called_at >= ? AND called_at <= ?
+    AND user_id IN (SELECT user_id FROM memberships WHERE crew_id = ?)`,
+  deck: 'SELECT id, title, hesitation_ms AS hesitationMs FROM decks WHERE id = ?',
+  deckCrews: `SELECT c.id, c.name FROM deck_crews dc JOIN crews c ON c.id = dc.crew_id WHERE dc.deck_id = ? ORDER BY c.name`,
+  deckCalls: `SELECT target_type_id, called_type_id, aspect, condition FROM calls WHERE deck_id = ? AND ${WATCH_CALLS} AND called_at >= ? AND called_at <= ?
+    AND user_id IN (SELECT m.user_id FROM memberships m JOIN deck_crews dc ON dc.crew_id = m.crew_id WHERE dc.deck_id = ?)`,
+  user: 'SELECT id, name, reminders_opt_out AS remindersOptOut FROM users WHERE id = ?',
+  userCrews: `SELECT c.id, c.name, c.min_accuracy AS minAccuracy, c.min_calls_per_track AS minCallsPerTrack, c.window_days AS windowDays,
+    c.offline_counts AS offlineCounts FROM memberships m JOIN crews c ON c.id = m.crew_id WHERE m.user_id = ? ORDER BY c.name`,
+  baseline: 'SELECT simple_ms AS simpleMs, choice_ms AS choiceMs, created_at AS at FROM tap_baselines WHERE user_id = ? ORDER BY created_at DESC LIMIT 1',
+  typeOf: 'SELECT id, name, features FROM target_types WHERE id = ?',
+  sunlitPicture: `SELECT va.file FROM variants va JOIN views v ON v.id = va.view_id
+    WHERE v.target_type_id = ? AND v.aspect = ? AND va.condition = 'sunlit' ORDER BY va.width < 320, va.width LIMIT 1`,
+} as const
 
-type Statements = ReturnType<typeof statementsFor>
-const cache = new WeakMap<Database, Statements>()
+/** A JSON list of ids, as json_each(?) reads it. */
+type IdList = string
 
-function stmts(sqlite: Database): Statements {
-  let s = cache.get(sqlite)
-  if (!s) {
-    s = statementsFor(sqlite)
-    cache.set(sqlite, s)
-  }
-  return s
-}
-
-type RawCall = [string, string, string | null, string, string, number, string, number, number | null, number, number]
+type RawCall = [string, string, string | null, string, string, number, CallGrade, number, number | null, number, number]
 
 export interface LoadedCall extends CallRecord {
   deckId: string
@@ -100,7 +90,7 @@ function toRecord(r: RawCall): LoadedCall {
     aspect: r[3],
     condition: r[4],
     correct: r[5] === 1,
-    grade: r[6] as CallGrade,
+    grade: r[6],
     anticipation: r[7] === 1,
     latencyMs: r[8],
     calledAt: r[9],
@@ -111,79 +101,28 @@ function toRecord(r: RawCall): LoadedCall {
 /** A person's calls on the given decks with fromMs <= calledAt <= toMs, oldest first. */
 export function loadPersonCalls(sqlite: Database, userId: string, deckIds: readonly string[], fromMs: number, toMs: number): LoadedCall[] {
   if (!deckIds.length) return []
-  const rows = (stmts(sqlite).userCalls as Statement<unknown[], RawCall>).all(userId, fromMs, toMs, JSON.stringify(deckIds))
+  const rows = statement<RawCall, [string, number, number, IdList]>(sqlite, SQL.userCalls).raw().all(userId, fromMs, toMs, JSON.stringify(deckIds))
   const out = rows.map(toRecord)
   out.sort((a, b) => a.calledAt - b.calledAt)
   return out
 }
 
 function trackKeysOf(sqlite: Database, deckId: string): TrackKey[] {
-  return (stmts(sqlite).trackKeys.raw().all(deckId) as [string, string][]).map(([targetTypeId, aspect]) => ({ targetTypeId, aspect }))
+  return statement<[string, string], [string]>(sqlite, SQL.trackKeys).raw().all(deckId).map(([targetTypeId, aspect]) => ({ targetTypeId, aspect }))
+}
+
+function tracksDueOf(sqlite: Database, userId: string, nowMs: number, deckJson: IdList): number {
+  return statement<number, [string, number, IdList]>(sqlite, SQL.tracksDue).pluck().get(userId, nowMs, deckJson)!
 }
 
 function standardOf(crew: CrewRow): ReadinessStandard {
   return { minAccuracy: crew.minAccuracy, minCallsPerTrack: crew.minCallsPerTrack, windowDays: crew.windowDays, offlineCounts: crew.offlineCounts === 1 }
 }
 
-// ---------------------------------------------------------------- access
-
-const noCrewAccess = () => createError({ statusCode: 403, message: 'You do not have access to this crew.' })
-
-/** May the actor read this crew's reports? A lead of the crew, an instructor with a deck assigned to it, or an admin. */
-export function canReadCrewStats(sqlite: Database, actor: Actor, crewId: string): boolean {
-  if (hasRole(actor, 'admin')) return true
-  if (hasRole(actor, 'lead') && actor.crewIds.includes(crewId)) return true
-  return hasRole(actor, 'instructor') && !!stmts(sqlite).ownsDeckInCrew.get(crewId, actor.id)
-}
-
-/** The gate for crew reports: 404 for an unknown crew only to an admin, 403 to everyone else it does not concern. */
-export async function requireCrewStatsAccess(event: H3Event, sqlite: Database, crewId: string): Promise<Actor> {
-  const actor = await requireActor(event)
-  if (hasRole(actor, 'admin')) {
-    if (!stmts(sqlite).crew.get(crewId)) throw createError({ statusCode: 404, message: 'No such crew.' })
-    return actor
-  }
-  if (!canReadCrewStats(sqlite, actor, crewId)) throw noCrewAccess()
-  return actor
-}
-
-/** Whose person page the actor sees, and of which crews: null for all of the person's crews. */
-export interface PersonAccess { actor: Actor, crewIds: string[] | null }
-
-/**
- * The person themself, an instructor with a deck assigned to one of their crews, or an admin see
- * all of the person's crews; a lead sees only the crews the lead leads (crewsLedOver in gate.ts).
- */
-export async function requirePersonAccess(event: H3Event, sqlite: Database, userId: string): Promise<PersonAccess> {
-  const actor = await requireActor(event)
-  if (actor.id === userId) return { actor, crewIds: null }
-  const s = stmts(sqlite)
-  if (hasRole(actor, 'admin')) {
-    if (!s.user.get(userId)) throw createError({ statusCode: 404, message: 'No such person.' })
-    return { actor, crewIds: null }
-  }
-  if (hasRole(actor, 'instructor') && s.ownsDeckOfPerson.get(userId, actor.id)) return { actor, crewIds: null }
-  const led = crewsLedOver(sqlite, actor, userId)
-  if (!led.length) throw createError({ statusCode: 403, message: 'You can see the progress of people in your own crews only.' })
-  return { actor, crewIds: led }
-}
-
-/** The deck's owner (an instructor) or an admin. */
-export async function requireDeckOwner(event: H3Event, sqlite: Database, deckId: string): Promise<Actor> {
-  const actor = await requireActor(event)
-  if (!hasRole(actor, 'instructor', 'admin')) throw createError({ statusCode: 403, message: 'This needs the instructor or admin role.' })
-  const deck = stmts(sqlite).deck.get(deckId) as { ownerId: string } | undefined
-  if (!deck) throw createError({ statusCode: 404, message: 'No such deck.' })
-  if (!hasRole(actor, 'admin') && deck.ownerId !== actor.id) {
-    throw createError({ statusCode: 403, message: 'Only the deck\'s own instructor sees its confusions.' })
-  }
-  return actor
-}
-
 // ---------------------------------------------------------------- crew table
 
 function decksInScope(sqlite: Database, crewId: string, deckId: string | undefined, who: string): DeckRow[] {
-  const all = stmts(sqlite).crewDecks.all(crewId) as DeckRow[]
+  const all = statement<DeckRow, [string]>(sqlite, SQL.crewDecks).all(crewId)
   if (!deckId) return all
   const one = all.filter(d => d.id === deckId)
   if (!one.length) throw createError({ statusCode: 404, message: `That deck is not assigned to ${who}. Choose one of its decks.` })
@@ -247,12 +186,12 @@ export function packedSql({ cuts, decks, filtered }: PackedStatementKey): string
   const matches = filtered ? '((? IS NULL OR aspect = ?) AND (? IS NULL OR condition = ?))' : '1'
   const code = `(CASE WHEN ${RIGHT} THEN coalesce(latency_ms + 2, 1) ELSE 0 END)`
   return `SELECT (((((${code} * ${decks} + ${deck}) * 2 + ${onDeckType}) * 2 + offline) * 2 + ${matches}) * ${PERIOD_SLOTS} + ${period})
-    FROM calls WHERE user_id = ? AND ${DRILL} AND deck_id IN (SELECT value FROM json_each(?)) AND called_at >= ? AND called_at < ?`
+    FROM calls WHERE user_id = ? AND ${WATCH_CALLS} AND deck_id IN (SELECT value FROM json_each(?)) AND called_at >= ? AND called_at < ?`
 }
 
-// Drill calls on each (target type, aspect) pair of a JSON list in [from, to], in the list's order
+// Watch calls on each (target type, aspect) pair of a JSON list in [from, to], in the list's order
 // (offline ones only when the second ? is 1): one seek of calls_user_deck_pair_time_idx a pair.
-export const PAIR_COUNTS_SQL = `SELECT (SELECT COUNT(*) FROM calls c WHERE c.user_id = ? AND c.${DRILL} AND c.deck_id = ?
+export const PAIR_COUNTS_SQL = `SELECT (SELECT COUNT(*) FROM calls c WHERE c.user_id = ? AND c.kind = 'watch' AND c.deck_id = ?
   AND c.target_type_id = k.value ->> 0 AND c.aspect = k.value ->> 1 AND c.called_at >= ? AND c.called_at <= ? AND (? OR c.offline = 0))
   FROM json_each(?) k ORDER BY k.key`
 
@@ -267,30 +206,13 @@ function pairListOf(keys: readonly TrackKey[]): string {
   return json
 }
 
-function tableStatementsFor(sqlite: Database) {
-  const packed = new Map<string, Statement>()
-  return {
-    packed(key: PackedStatementKey): Statement {
-      const k = `${key.cuts}:${key.decks}:${key.filtered}`
-      let st = packed.get(k)
-      if (!st) {
-        st = sqlite.prepare(packedSql(key)).pluck()
-        packed.set(k, st)
-      }
-      return st
-    },
-    pairCounts: sqlite.prepare(PAIR_COUNTS_SQL).pluck(),
-  }
-}
-
-const tableCache = new WeakMap<Database, ReturnType<typeof tableStatementsFor>>()
-function tableStmts(sqlite: Database) {
-  let s = tableCache.get(sqlite)
-  if (!s) {
-    s = tableStatementsFor(sqlite)
-    tableCache.set(sqlite, s)
-  }
-  return s
+// The packed statement's SQL text by its shape, made once a shape (statement() keys its cache by the text).
+const packedTexts = new Map<string, string>()
+function packedSqlOf(key: PackedStatementKey): string {
+  const k = `${key.cuts}:${key.decks}:${key.filtered}`
+  let text = packedTexts.get(k)
+  if (text === undefined) packedTexts.set(k, text = packedSql(key))
+  return text
 }
 
 function quantileOf(sorted: Float64Array, p: number): number | null {
@@ -319,17 +241,16 @@ export function personTallies(
   }
   const tallies = decks.map(() => ({ calls: 0, right: 0, latencies: [] as number[] }))
   if (!decks.length) return { periods, readiness: [] }
-  const t = tableStmts(sqlite)
   const deckIds = decks.map(d => d.id)
   const deckJson = JSON.stringify(deckIds)
   const filtered = filter.aspect !== null || filter.condition !== null
   // In the order the placeholders come in packedSql: deck, onDeckType, matches, period, then WHERE.
   const offlineCounts = scope.offlineCounts ? 1 : 0
   const onDeckType = [scope.windowFromMs, offlineCounts, deckJson]
-  const args: unknown[] = decks.length > 1 ? [...deckIds, ...onDeckType] : onDeckType
+  const args: (string | number | null)[] = decks.length > 1 ? [...deckIds, ...onDeckType] : onDeckType
   if (filtered) args.push(filter.aspect, filter.aspect, filter.condition, filter.condition)
   args.push(...scope.cutTimes, userId, deckJson, scope.oldestMs, scope.nowMs + 1)
-  const values = t.packed({ cuts: scope.cutTimes.length, decks: decks.length, filtered }).all(...args) as number[]
+  const values = statement<number>(sqlite, packedSqlOf({ cuts: scope.cutTimes.length, decks: decks.length, filtered })).pluck().all(...args)
   const nDecks = decks.length
   for (const v of values) {
     // Below 2^31 (any latency up to MAX_LATENCY_MS on up to 550 decks) bit operations are exact
@@ -357,7 +278,8 @@ export function personTallies(
   }
   const readinessTallies = decks.map((deck, i): ReadinessTally => {
     const keys = keysByDeck.get(deck.id) ?? []
-    const n = t.pairCounts.all(userId, deck.id, scope.windowFromMs, scope.nowMs, offlineCounts, pairListOf(keys)) as number[]
+    const n = statement<number, [string, string, number, number, number, string]>(sqlite, PAIR_COUNTS_SQL).pluck()
+      .all(userId, deck.id, scope.windowFromMs, scope.nowMs, offlineCounts, pairListOf(keys))
     const counts = new Map(keys.map((k, j) => [trackKeyOf(k.targetTypeId, k.aspect), n[j]!]))
     const { calls, right, latencies } = tallies[i]!
     return { calls, right, latencies: sortedCopy(latencies), counts }
@@ -371,15 +293,14 @@ export function personTallies(
  * readiness always follows the crew's standard on the decks in scope, unfiltered (readiness()).
  */
 export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilters, nowMs: number): CrewStats {
-  const s = stmts(sqlite)
-  const crew = s.crew.get(crewId) as CrewRow | undefined
+  const crew = statement<CrewRow, [string]>(sqlite, SQL.crew).get(crewId)
   if (!crew) throw createError({ statusCode: 404, message: 'No such crew.' })
   const decks = decksInScope(sqlite, crewId, filters.deckId, 'this crew')
   const deckIds = decks.map(d => d.id)
   const deckJson = JSON.stringify(deckIds)
   const standard = standardOf(crew)
   const keysByDeck = new Map(decks.map(d => [d.id, trackKeysOf(sqlite, d.id)]))
-  const trainees = s.trainees.all(crewId) as { id: string, name: string }[]
+  const trainees = statement<{ id: string, name: string }, [string]>(sqlite, SQL.trainees).all(crewId)
 
   // Periods back from now, in days: the table's window, both trends, the period before each, and
   // the standard's window. Period i is [now - cuts[i+1] days, now - cuts[i] days), the newest
@@ -438,7 +359,7 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
     const main = window(filters.days)
     const ready = combineDeckReadiness(decks, (deck, i) =>
       readinessOfTally(tallies[i]!, keysByDeck.get(deck.id) ?? [], standard, deck.hesitationMs))
-    const last = deckIds.length ? s.lastCall.get(person.id, nowMs, deckJson) as number | undefined : undefined
+    const last = deckIds.length ? statement<number, [string, number, IdList]>(sqlite, SQL.lastCall).pluck().get(person.id, nowMs, deckJson) : undefined
     return {
       userId: person.id,
       name: person.name,
@@ -451,7 +372,7 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
       trend7: trend(7),
       trend30: trend(30),
       lastWatchAt: last ?? null,
-      tracksDue: deckIds.length ? s.tracksDue.get(person.id, nowMs, deckJson) as number : 0,
+      tracksDue: deckIds.length ? tracksDueOf(sqlite, person.id, nowMs, deckJson) : 0,
       missing: ready.missing,
     }
   })
@@ -493,14 +414,14 @@ export function crewStatsRecords(stats: CrewStats, timeZone: string): (string | 
 // ---------------------------------------------------------------- confusions
 
 function namesOf(sqlite: Database, deckIds: readonly string[]): Map<string, string> {
-  const rows = stmts(sqlite).typeNames.all(JSON.stringify(deckIds)) as { id: string, name: string }[]
+  const rows = statement<{ id: string, name: string }, [IdList]>(sqlite, SQL.typeNames).all(JSON.stringify(deckIds))
   return new Map(rows.map(r => [r.id, r.name]))
 }
 
 function nameOf(sqlite: Database, names: Map<string, string>, id: string): string {
   let n = names.get(id)
   if (n === undefined) {
-    n = (stmts(sqlite).typeName.get(id) as string | undefined) ?? 'an unknown target type'
+    n = statement<string, [string]>(sqlite, SQL.typeName).pluck().get(id) ?? 'an unknown target type'
     names.set(id, n)
   }
   return n
@@ -520,7 +441,8 @@ export function crewConfusionsOf(sqlite: Database, crewId: string, deckId: strin
   const deck = decks[0]
   if (!deck) return { deck: null, days, types: [], counts: [], noCall: [], totals: [] }
   const names = namesOf(sqlite, [deck.id])
-  const rows = stmts(sqlite).crewDeckCalls.all(deck.id, nowMs - days * DAY_MS, nowMs, crewId) as [string, string | null][]
+  const rows = statement<[string, string | null], [string, number, number, string]>(sqlite, SQL.crewDeckCalls).raw()
+    .all(deck.id, nowMs - days * DAY_MS, nowMs, crewId)
   const m = confusionMatrix(rows.map(([targetTypeId, calledTypeId]) => ({ targetTypeId, calledTypeId })), { types: [...names.keys()] })
   return {
     deck,
@@ -534,15 +456,15 @@ export function crewConfusionsOf(sqlite: Database, crewId: string, deckId: strin
 
 /** The worst pairs of a deck across the crews it is assigned to: overall, by aspect and by condition. */
 export function deckConfusionsOf(sqlite: Database, deckId: string, days: number, nowMs: number, limit = 12): DeckConfusions {
-  const s = stmts(sqlite)
-  const deck = s.deck.get(deckId) as DeckRow | undefined
+  const deck = statement<DeckRow, [string]>(sqlite, SQL.deck).get(deckId)
   if (!deck) throw createError({ statusCode: 404, message: 'No such deck.' })
   const names = namesOf(sqlite, [deckId])
-  const rows = s.deckCalls.all(deckId, nowMs - days * DAY_MS, nowMs, deckId) as [string, string | null, string, string][]
+  const rows = statement<[string, string | null, string, string], [string, number, number, string]>(sqlite, SQL.deckCalls).raw()
+    .all(deckId, nowMs - days * DAY_MS, nowMs, deckId)
   const calls = rows.map(([targetTypeId, calledTypeId, aspect, condition]) => ({ targetTypeId, calledTypeId, aspect, condition }))
   return {
     deck: { id: deck.id, title: deck.title },
-    crews: s.deckCrews.all(deckId) as { id: string, name: string }[],
+    crews: statement<{ id: string, name: string }, [string]>(sqlite, SQL.deckCrews).all(deckId),
     days,
     calls: calls.length,
     overall: namedPairs(sqlite, names, worstPairs(calls, { limit })),
@@ -556,12 +478,11 @@ export function deckConfusionsOf(sqlite: Database, deckId: string, days: number,
 // by side with their features and a sunlit picture (for the deck's instructor, who may see renderings).
 const SIDE_BY_SIDE = 3
 function sideBySide(sqlite: Database, pairs: NamedPair[]): SideBySidePair[] {
-  const typeOf = sqlite.prepare('SELECT id, name, features FROM target_types WHERE id = ?')
-  const picture = sqlite.prepare(`SELECT va.file FROM variants va JOIN views v ON v.id = va.view_id
-    WHERE v.target_type_id = ? AND v.aspect = ? AND va.condition = 'sunlit' ORDER BY va.width < 320, va.width LIMIT 1`).pluck()
+  const typeOf = statement<{ id: string, name: string, features: string }, [string]>(sqlite, SQL.typeOf)
+  const picture = statement<string, [string, string]>(sqlite, SQL.sunlitPicture).pluck()
   const side = (id: string, aspect: string): PairSide => {
-    const t = typeOf.get(id) as { id: string, name: string, features: string }
-    const file = picture.get(id, aspect) as string | undefined
+    const t = typeOf.get(id)!
+    const file = picture.get(id, aspect)
     return { id: t.id, name: t.name, features: JSON.parse(t.features) as Record<string, string>, imageUrl: file ? `/images/${file}` : null }
   }
   const seen = new Set<string>()
@@ -588,19 +509,18 @@ function breakdown(rows: readonly BreakdownRow[], label: (key: string) => string
 }
 
 /** Everything the person page shows, for `days` days up to nowMs on the decks of the person's crews. */
-/** The person page; crewIds (see requirePersonAccess) limits it to those crews and their decks. */
+/** The person page; crewIds (see requirePersonAccess in policy.ts) limits it to those crews and their decks. */
 export function personReportOf(
   sqlite: Database, userId: string, viewerId: string, filters: { deckId?: string, days: number }, nowMs: number, crewIds: readonly string[] | null = null,
 ): PersonReport {
-  const s = stmts(sqlite)
-  const user = s.user.get(userId) as { id: string, name: string, remindersOptOut: number } | undefined
+  const user = statement<{ id: string, name: string, remindersOptOut: number }, [string]>(sqlite, SQL.user).get(userId)
   if (!user) throw createError({ statusCode: 404, message: 'No such person.' })
-  const crews = (s.userCrews.all(userId) as CrewRow[]).filter(c => !crewIds || crewIds.includes(c.id))
+  const crews = statement<CrewRow, [string]>(sqlite, SQL.userCrews).all(userId).filter(c => !crewIds || crewIds.includes(c.id))
   // Decks of all the person's crews, each read against the standard of the first crew it is assigned to.
   const deckCrew = new Map<string, CrewRow>()
   const allDecks: DeckRow[] = []
   for (const crew of crews) {
-    for (const d of s.crewDecks.all(crew.id) as DeckRow[]) {
+    for (const d of statement<DeckRow, [string]>(sqlite, SQL.crewDecks).all(crew.id)) {
       if (deckCrew.has(d.id)) continue
       deckCrew.set(d.id, crew)
       allDecks.push(d)
@@ -623,7 +543,7 @@ export function personReportOf(
 
   const names = namesOf(sqlite, deckIds)
   const typeLabel = (id: string) => nameOf(sqlite, names, id)
-  const baselineRow = s.baseline.get(userId) as { simpleMs: number, choiceMs: number, at: number } | undefined
+  const baselineRow = statement<{ simpleMs: number, choiceMs: number, at: number }, [string]>(sqlite, SQL.baseline).get(userId)
 
   const readinessViews: DeckReadinessView[] = decks.map((deck) => {
     const r = readinessOnDecks(all, [deck], new Map([[deck.id, trackKeysOf(sqlite, deck.id)]]), standardOf(deckCrew.get(deck.id)!), nowMs)
@@ -647,6 +567,14 @@ export function personReportOf(
     baseline: baselineRow ?? null,
     netMs: baselineRow && summary.medianMs !== null ? Math.max(0, summary.medianMs - baselineRow.choiceMs) : null,
     readiness: readinessViews,
-    tracksDue: deckIds.length ? s.tracksDue.get(userId, nowMs, JSON.stringify(deckIds)) as number : 0,
+    tracksDue: deckIds.length ? tracksDueOf(sqlite, userId, nowMs, JSON.stringify(deckIds)) : 0,
   }
 }
+
+// ---------------------------------------------------------------- for the routes (the server's one handle)
+
+export const crewStats = (crewId: string, filters: StatsFilters) => crewStatsOf(useSqlite(), crewId, filters, Date.now())
+export const crewConfusions = (crewId: string, deckId: string | undefined, days: number) => crewConfusionsOf(useSqlite(), crewId, deckId, days, Date.now())
+export const deckConfusions = (deckId: string, days: number) => deckConfusionsOf(useSqlite(), deckId, days, Date.now())
+export const personReport = (userId: string, viewerId: string, filters: { deckId?: string, days: number }, crewIds: readonly string[] | null) =>
+  personReportOf(useSqlite(), userId, viewerId, filters, Date.now(), crewIds)

@@ -1,3 +1,4 @@
+import { sql } from 'drizzle-orm'
 import { applyMigrations, openDatabase } from '../database/client'
 import type { GlintDb } from '../database/client'
 
@@ -12,6 +13,11 @@ export function useDb(): GlintDb {
     applyMigrations(handle.db)
   }
   return handle.db
+}
+
+// The health route's probe: throws when the database does not answer.
+export function pingDatabase() {
+  useDb().get(sql`select 1`)
 }
 
 export function useSqlite() {

@@ -1,5 +1,4 @@
 import type { H3Event } from 'h3'
-import type { Database } from 'better-sqlite3'
 import { eq } from 'drizzle-orm'
 import type { Role } from '#shared/types/roles'
 
@@ -100,22 +99,4 @@ export async function requireCrewRole(event: H3Event, crewId: string, ...roles: 
     throw createError({ statusCode: 403, message: 'You do not have access to this crew.' })
   }
   return actor
-}
-
-// The crews the actor and the person are both members of.
-function sharedCrews(sqlite: Database, actor: Actor, userId: string): string[] {
-  if (!actor.crewIds.length) return []
-  return sqlite.prepare<[string, string], string>(`SELECT crew_id FROM memberships WHERE user_id = ?
-    AND crew_id IN (SELECT value FROM json_each(?))`).pluck().all(userId, JSON.stringify(actor.crewIds))
-}
-
-// The one policy of a lead over a person: the crews the actor leads that the person is in. A
-// lead's powers over a person (reports, check results, reset, sign-off) stop at these crews.
-export function crewsLedOver(sqlite: Database, actor: Actor, userId: string): string[] {
-  return hasRole(actor, 'lead') ? sharedCrews(sqlite, actor, userId) : []
-}
-
-// Is the person a member of one of the actor's crews (those the actor leads or instructs)?
-export function sharesCrew(actor: Actor, userId: string) {
-  return sharedCrews(useSqlite(), actor, userId).length > 0
 }

@@ -1,3 +1,4 @@
+import { desc } from 'drizzle-orm'
 import { SAFETY_LINE, escapeHtml } from '../../shared/utils/mail-text'
 import { createError } from 'h3'
 import nodemailer from 'nodemailer'
@@ -49,6 +50,13 @@ export async function sendMail(message: MailMessage) {
 const NO_PUBLIC_URL = 'This server cannot mail links yet: its administrator must set NUXT_PUBLIC_URL to the address people open Glint at.'
 
 // The configured public address without a trailing slash, or null when unset or not an http(s) URL.
+// The local outbox (mail transport "outbox"): the latest 200 mails stored, newest first, for an admin.
+export function outboxMails() {
+  const m = tables.mails
+  return useDb().select({ id: m.id, to: m.to, subject: m.subject, text: m.text, html: m.html, status: m.status, error: m.error, sentAt: m.sentAt })
+    .from(m).orderBy(desc(m.sentAt)).limit(200).all()
+}
+
 export function configuredPublicUrl(): string | null {
   const configured = String(useRuntimeConfig().publicUrl ?? '').trim()
   if (!configured) return null

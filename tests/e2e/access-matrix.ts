@@ -22,9 +22,11 @@ export interface Entry {
 const anyone: Entry = { anon: 'pass', trainee: 'pass', instructor: 'pass', lead: 'pass', admin: 'pass' }
 const signedIn: Entry = { anon: 401, trainee: 'pass', instructor: 'pass', lead: 'pass', admin: 'pass' }
 const adminOnly: Entry = { anon: 401, trainee: 403, instructor: 403, lead: 403, admin: 'pass' }
-// A deck's own instructor only; the admin is no instructor. Another crew's deck is not confirmed to exist.
+// The rules are server/domain/policy.ts's, one per relation; the entries name the one they follow.
+// An admin oversees everything but authors no instructor's content and acts as no lead.
+// buildsDeck: a deck's own instructor only; the admin is no instructor. Another crew's deck is not confirmed to exist.
 const deckOwner: Entry = { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 }
-// Crew reports: a lead of the crew, an instructor with a deck assigned to it, an admin (any crew).
+// readsCrewReports: a lead of the crew, an instructor with a deck assigned to it (teachesCrew), an admin (any crew).
 const crewReport: Entry = { anon: 401, trainee: 403, instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } }
 
 export const MATRIX: Record<string, Entry> = {
@@ -36,6 +38,7 @@ export const MATRIX: Record<string, Entry> = {
   'GET /api/decks/:deck/builder': deckOwner,
   'PATCH /api/decks/:deck': deckOwner,
   'DELETE /api/decks/:deck': deckOwner,
+  // overseesDeck (requireDeckOverseer): its own instructor, to crews they belong to; an admin, to any crew.
   'PUT /api/decks/:deck/crews': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 'ok', other: { admin: 'ok' } },
   'POST /api/decks/:deck/target-types': deckOwner,
   'POST /api/decks/:deck/views': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 403 },
@@ -97,7 +100,9 @@ export const MATRIX: Record<string, Entry> = {
   'GET /api/crews/:crew/fsrs': crewReport,
   'POST /api/crews/:crew/fsrs': crewReport,
   'GET /api/crews/:crew/scan': { anon: 401, trainee: 403, instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
+  // overseesDeck: its own instructor or an admin (an admin oversees every deck; the same rule assigns it to crews).
   'GET /api/decks/:deck/confusions': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 'ok', other: { admin: 'ok' } },
+  // requirePersonAccess: the person, an admin, an instructor who teaches the person, a lead over the person (crewsLedOver).
   // Own crew's person: the trainee is that person; another crew's person is refused to all but the admin.
   'GET /api/people/:user': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
   'POST /api/digests/run': adminOnly,
@@ -107,7 +112,7 @@ export const MATRIX: Record<string, Entry> = {
   'POST /api/scan/drills': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 'pass' },
   'PATCH /api/scan/drills/:drill': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 'ok', other: { admin: 'ok' } },
   'PUT /api/scan/drills/:drill/crews': { anon: 401, trainee: 403, instructor: 'ok', lead: 403, admin: 'ok', other: { admin: 'ok' } },
-  // Own passes; a lead's or instructor's crew member's; anyone's for an admin.
+  // seesScanPasses: own passes; a lead's or instructor's crew member's; anyone's for an admin.
   'GET /api/scan/passes': { anon: 401, trainee: 'ok', instructor: 'ok', lead: 'ok', admin: 'ok', other: { admin: 'ok' } },
   'POST /api/scan/passes': signedIn,
   'POST /api/scan/passes/start': signedIn,

@@ -1,7 +1,7 @@
-import { eq } from 'drizzle-orm'
 import { InviteBody } from '#shared/schemas/auth'
 import { inviteProblem, issueInvitation } from '../../domain/invitations'
 import { findUserByEmail } from '../../domain/people'
+import { requireCrew } from '../../domain/crews'
 
 export default defineEventHandler(async (event) => {
   const actor = await requireRole(event, 'admin', 'lead', 'instructor')
@@ -10,9 +10,7 @@ export default defineEventHandler(async (event) => {
   if (problem) throw createError({ statusCode: 403, message: problem })
   // No mail can carry a link without the public address: refuse (503) before anything is stored.
   appUrl()
-  if (crewId && !useDb().select({ id: tables.crews.id }).from(tables.crews).where(eq(tables.crews.id, crewId)).get()) {
-    throw createError({ statusCode: 404, message: 'No such crew.' })
-  }
+  if (crewId) requireCrew(crewId)
   if (findUserByEmail(email)) {
     throw createError({ statusCode: 409, message: 'That address already has a Glint account. An admin adds the person to the crew on the People page.' })
   }

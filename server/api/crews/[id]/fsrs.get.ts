@@ -1,12 +1,11 @@
 import { IdParam } from '#shared/schemas/params'
-import { requireCrewStatsAccess } from '../../../domain/stats'
-import { crewFitView } from '../../../domain/crew-fits'
+import { requireCrewReports } from '../../../domain/policy'
+import { crewFit } from '../../../domain/crews'
 
 // The crew's scheduling parameters: the last fit's state and figures, the forgetting curve and
 // calibration of the default and fitted sets (leads of the crew, instructors of its decks, admins).
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
-  const sqlite = useSqlite()
-  await requireCrewStatsAccess(event, sqlite, id)
-  return crewFitView(sqlite, id)
+  await requireCrewReports(event, id)
+  return crewFit(id)
 })

@@ -1,14 +1,12 @@
 import { IdParam } from '#shared/schemas/params'
-import { requireCrewStatsAccess } from '../../../domain/stats'
-import { startCrewFit, crewFitView } from '../../../domain/crew-fits'
+import { requireCrewReports } from '../../../domain/policy'
+import { startFit } from '../../../domain/crews'
 
 // Starts a fit of the crew's parameters off the request thread; answers 202 with the state at once
 // (a fit already running is joined, not started twice). Poll GET for progress and figures.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
-  const sqlite = useSqlite()
-  const actor = await requireCrewStatsAccess(event, sqlite, id)
-  void startCrewFit(sqlite, id, actor.id)
+  const actor = await requireCrewReports(event, id)
   setResponseStatus(event, 202)
-  return crewFitView(sqlite, id)
+  return startFit(id, actor.id)
 })

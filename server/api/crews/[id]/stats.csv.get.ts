@@ -1,7 +1,8 @@
 import { stringify } from 'csv-stringify/sync'
 import { IdParam } from '#shared/schemas/params'
 import { StatsCsvQuery } from '#shared/schemas/stats'
-import { requireCrewStatsAccess, crewStatsOf, crewCsvColumns, crewStatsRecords } from '../../../domain/stats'
+import { requireCrewReports } from '../../../domain/policy'
+import { crewStats, crewCsvColumns, crewStatsRecords } from '../../../domain/stats'
 
 // The crew table as CSV (RFC 4180 quoting by csv-stringify), one header row of named columns with
 // units, the numbers rounded as the table shows them and times in the reader's time zone (`tz`).
@@ -9,11 +10,10 @@ import { requireCrewStatsAccess, crewStatsOf, crewCsvColumns, crewStatsRecords }
 // quote (OWASP "CSV Injection").
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
-  const sqlite = useSqlite()
-  await requireCrewStatsAccess(event, sqlite, id)
+  await requireCrewReports(event, id)
   const { tz, ...filters } = await queryInput(event, StatsCsvQuery)
   const timeZone = tz ?? 'UTC'
-  const stats = crewStatsOf(sqlite, id, filters, Date.now())
+  const stats = crewStats(id, filters)
   const day = new Date(stats.generatedAt).toISOString().slice(0, 10)
   const file = `${stats.crew.name.replace(/[^\w-]+/g, '-').replace(/^-+|-+$/g, '').toLowerCase() || 'crew'}-stats-${day}.csv`
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')

@@ -1,12 +1,12 @@
 import { IdParam } from '#shared/schemas/params'
 import { StatsQuery } from '#shared/schemas/stats'
-import { requireCrewStatsAccess, crewStatsOf } from '../../../domain/stats'
+import { requireCrewReports } from '../../../domain/policy'
+import { crewStats } from '../../../domain/stats'
 
 // The crew table: per trainee calls, accuracy, median and 90th percentile of right calls, trends, readiness.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, IdParam)
-  const sqlite = useSqlite()
-  await requireCrewStatsAccess(event, sqlite, id)
+  await requireCrewReports(event, id)
   const filters = await queryInput(event, StatsQuery)
-  return crewStatsOf(sqlite, id, filters, Date.now())
+  return crewStats(id, filters)
 })

@@ -1,11 +1,12 @@
 import { ConfusionsQuery, DeckParam } from '#shared/schemas/stats'
-import { requireDeckOwner, deckConfusionsOf } from '../../../domain/stats'
+import { requireDeckOverseer } from '../../../domain/policy'
+import { deckConfusions } from '../../../domain/stats'
 
-// The deck's worst pairs across the crews it is assigned to, for its instructor: which look-alikes to teach.
+// The deck's worst pairs across the crews it is assigned to, for those who oversee it (its
+// instructor, an admin): which look-alikes to teach.
 export default defineEventHandler(async (event) => {
   const { id } = await paramsInput(event, DeckParam)
-  const sqlite = useSqlite()
-  await requireDeckOwner(event, sqlite, id)
+  await requireDeckOverseer(event, id)
   const { days } = await queryInput(event, ConfusionsQuery)
-  return deckConfusionsOf(sqlite, id, days, Date.now())
+  return deckConfusions(id, days)
 })

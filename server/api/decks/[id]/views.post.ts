@@ -1,10 +1,9 @@
 import { readFile } from 'node:fs/promises'
-import { eq } from 'drizzle-orm'
 import { UPLOAD_LIMITS, UploadFields } from '#shared/schemas/decks'
 import { IdParam } from '#shared/schemas/params'
 import type { SniffedFile } from '../../../utils/jobs'
 import type { StreamedUpload } from '../../../utils/upload-stream'
-import { requireOwnDeck } from '../../../domain/decks'
+import { requireOwnDeck, targetTypeOfDeck } from '../../../domain/decks'
 
 const MB = 1024 * 1024
 
@@ -31,8 +30,7 @@ export default defineEventHandler(async (event) => {
 
     const fields = validator(UploadFields)({ targetTypeId: upload.fields.targetTypeId, aspect: upload.fields.aspect })
     if (!upload.files.length) throw createError({ statusCode: 400, message: 'files: Choose at least one PNG, JPEG or WebP picture.' })
-    const type = useDb().select().from(tables.targetTypes).where(eq(tables.targetTypes.id, fields.targetTypeId)).get()
-    if (!type || type.deckId !== deck.id) throw createError({ statusCode: 404, message: 'targetTypeId: No such target type in this deck.' })
+    const type = targetTypeOfDeck(deck, fields.targetTypeId)
 
     // One file at a time from disk (each at most maxFileBytes); a file cut at the cap is refused unread.
     const sniffed: SniffedFile[] = []

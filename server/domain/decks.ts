@@ -420,8 +420,8 @@ export function unlinkTargetType(actor: Actor, type: TypeRow) {
   if (rows.length < 2) throw conflict('This target type is not shared with another deck.')
   useDb().transaction((tx) => {
     if (type.definitionId === type.id) {
-      // The definition took this row's id: the others move together to a new one.
-      tx.update(tables.targetTypes).set({ definitionId: newId() })
+      // The definition took this row's id: the others move together to the oldest other row's.
+      tx.update(tables.targetTypes).set({ definitionId: rows.find(r => r.id !== type.id)!.id })
         .where(and(eq(tables.targetTypes.definitionId, type.definitionId), ne(tables.targetTypes.id, type.id))).run()
     }
     else {

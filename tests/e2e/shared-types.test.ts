@@ -59,6 +59,7 @@ describe('a target type shared between decks (issue 17, item 5)', () => {
   let deckB = ''
   let typeA = ''
   let typeB = ''
+  let perView = 0
 
   it('is linked into a second deck: one definition, its views\' renderings shared, nothing rendered again', async () => {
     deckA = await newDeck('Shared source')
@@ -85,7 +86,10 @@ describe('a target type shared between decks (issue 17, item 5)', () => {
     expect(viewsOf(typeB).map(v => v.sourceSha)).toEqual(viewsOf(typeA).map(v => v.sourceSha))
     expect(viewsOf(typeB)[0]!.id).not.toBe(viewsOf(typeA)[0]!.id)
     expect(filesOfType(typeB)).toEqual(filesOfType(typeA))
-    expect(filesOfType(typeA)).toHaveLength(6)
+    // Renderings under each of the glossary's six conditions (product.md), at one or more widths.
+    perView = filesOfType(typeA).length
+    expect(perView % 6).toBe(0)
+    expect(readDb(db => db.prepare('SELECT count(DISTINCT x.condition) FROM variants x JOIN views v ON v.id = x.view_id WHERE v.target_type_id = ?').pluck().get(typeB))).toBe(6)
     expect(readDb(db => db.prepare('SELECT count(*) FROM jobs WHERE user_id = ?').pluck().get(owner.id))).toBe(jobsBefore)
     expect(auditRows('target-type.link', typeB).map(r => r.actorId)).toEqual([owner.id])
 
@@ -126,7 +130,7 @@ describe('a target type shared between decks (issue 17, item 5)', () => {
     expect(headOn(typeA)).toHaveLength(1)
     expect(headOn(typeA)[0]!.sourceSha).toBe(headOn(typeB)[0]!.sourceSha)
     expect(filesOfType(typeA)).toEqual(filesOfType(typeB))
-    expect(filesOfType(typeA)).toHaveLength(12)
+    expect(filesOfType(typeA)).toHaveLength(2 * perView)
   })
 
   it('refuses a rename that clashes in any linked deck with a 409 naming that deck, and changes nothing', async () => {
@@ -197,11 +201,21 @@ describe('a target type shared between decks (issue 17, item 5)', () => {
     await upload(deckA, typeA, 'plan', 'valid.webp', 'image/webp')
     expect(viewsOf(typeA)).toHaveLength(viewsA.length + 1)
     expect(viewsOf(typeB).some(v => v.aspect === 'plan')).toBe(false)
-    // A row that is not the definition's own stops sharing too; then nothing of it is shared.
+    // A row that is not the definition's own stops sharing too; then each row is its own definition again.
     expect((await owner.client.post(`/api/target-types/${typeC}/unlink`)).status).toBe(200)
     expect([typeRow(typeB).definitionId, typeRow(typeC).definitionId].sort()).toEqual([typeB, typeC].sort())
     expect((await owner.client.get(`/api/decks/${deckB}/builder`)).body.targetTypes.find((t: { id: string }) => t.id === typeB).sharedWith).toEqual([])
     expect(auditRows('target-type.unlink', typeC).map(a => a.actorId)).toEqual([owner.id])
+  })
+
+  it('refuses a category that a linked deck does not hold, naming that deck, and changes nothing', async () => {
+    const mixed = await newDeck('Shared mixed', 'mixed')
+    const typeM = (await owner.client.post(`/api/decks/${mixed}/type-links`, { targetTypeId: typeB })).body.id as string
+    const before = [typeRow(typeB), typeRow(typeM)]
+    const r = await owner.client.patch(`/api/target-types/${typeM}`, { category: 'vessel', features: { hull: 'Long, low' } })
+    expect(r.status).toBe(409)
+    expect(r.body.message).toBe(`category: "Shared user ${tag}" shares this target type and is a deck of aircraft; stop sharing it there first. Nothing was changed.`)
+    expect([typeRow(typeB), typeRow(typeM)]).toEqual(before)
   })
 
   it('keeps another instructor out of the library and the links', async () => {

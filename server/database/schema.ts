@@ -126,8 +126,12 @@ export const targetTypes = sqliteTable('target_types', {
   affiliation: text('affiliation').notNull(), // friendly | hostile | neutral
   sizeM: real('size_m').notNull(),
   features: text('features', { mode: 'json' }).notNull().$type<Record<string, string>>(),
+  // The shared definition this row is one deck's use of: every deck that uses a library type has
+  // its own row (tracks, calls and sightings name the row), and all rows of one definition share
+  // this id, their fields and their views' renderings. A new target type is its own definition.
+  definitionId: text('definition_id').notNull(),
   ...timestamps,
-}, t => [uniqueIndex('target_types_deck_name_uq').on(t.deckId, t.name)])
+}, t => [uniqueIndex('target_types_deck_name_uq').on(t.deckId, t.name), index('target_types_definition_idx').on(t.definitionId)])
 
 export const lookAlikes = sqliteTable('look_alikes', {
   typeId: text('type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
@@ -151,7 +155,7 @@ export const removedViews = sqliteTable('removed_views', {
   deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
   targetTypeId: text('target_type_id').notNull().references(() => targetTypes.id, { onDelete: 'cascade' }),
   aspect: text('aspect').notNull(),
-  snapshot: text('snapshot', { mode: 'json' }).notNull().$type<{ view: Record<string, unknown>, variants: Record<string, unknown>[] }>(),
+  snapshot: text('snapshot', { mode: 'json' }).notNull().$type<{ view: Record<string, unknown>, variants: Record<string, unknown>[], together?: string[] }>(),
   removedBy: text('removed_by').references(() => users.id, { onDelete: 'set null' }),
   removedAt: integer('removed_at').notNull(),
 }, t => [index('removed_views_deck_idx').on(t.deckId, t.removedAt)])

@@ -1,9 +1,9 @@
 // Decks, target types and views: who may see and change them, and their database work.
 import type { H3Event } from 'h3'
-import { and, asc, desc, eq, gte, inArray, lt, or } from 'drizzle-orm'
+import { and, asc, desc, eq, gte, inArray, lt, ne, or } from 'drizzle-orm'
 import { ASPECTS, CONDITIONS } from '#shared/utils/conditions'
 import { featuresProblem, settingsConflict } from '#shared/schemas/decks'
-import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
+import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, LibraryType, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
 import type { Actor } from '../utils/gate'
 import { buildsDeck, overseesDeck } from './policy'
 
@@ -155,6 +155,8 @@ export function deckBuilderDetail(deck: DeckRow): BuilderDeck {
   const crews = db.select({ id: tables.crews.id, name: tables.crews.name }).from(tables.deckCrews)
     .innerJoin(tables.crews, eq(tables.crews.id, tables.deckCrews.crewId))
     .where(eq(tables.deckCrews.deckId, deck.id)).orderBy(asc(tables.crews.name)).all()
+  const types = typesWithViews(deck.id)
+  const shared = sharedDecks(deck.id, types.map(t => t.type.definitionId))
   return {
     id: deck.id,
     title: deck.title,
@@ -164,7 +166,7 @@ export function deckBuilderDetail(deck: DeckRow): BuilderDeck {
     settings: deckSettings(deck),
     drilled: deckDrilled(deck.id),
     crews,
-    targetTypes: typesWithViews(deck.id).map(({ type, lookAlikes, views }) => ({
+    targetTypes: types.map(({ type, lookAlikes, views }) => ({
       id: type.id,
       name: type.name,
       category: type.category as TypeCategory,
@@ -179,6 +181,7 @@ export function deckBuilderDetail(deck: DeckRow): BuilderDeck {
         height: view.height,
         variants: variants.map(v => ({ condition: v.condition, width: v.width, height: v.height, bytes: v.bytes, contrast: v.contrast, url: renderUrl(v.file) })),
       })),
+      sharedWith: shared.get(type.definitionId) ?? [],
     })),
   }
 }
@@ -340,7 +343,7 @@ export function createTargetType(actor: Actor, deck: DeckRow, body: TargetTypeBo
   const lookAlikes = checkLookAlikes(deck.id, id, body.lookAlikes ?? [])
   try {
     useDb().transaction((tx) => {
-      tx.insert(tables.targetTypes).values({ id, deckId: deck.id, name: body.name, category, affiliation: body.affiliation, sizeM: body.sizeM, features }).run()
+      tx.insert(tables.targetTypes).values({ id, definitionId: id, deckId: deck.id, name: body.name, category, affiliation: body.affiliation, sizeM: body.sizeM, features }).run()
       writeLookAlikes(tx, id, lookAlikes)
     })
   }
@@ -349,19 +352,85 @@ export function createTargetType(actor: Actor, deck: DeckRow, body: TargetTypeBo
   return id
 }
 
+/**
+ * Changes a target type. Its name, category, affiliation, size and features belong to its shared
+ * definition, so every deck's row of that definition changes with it, in one transaction; its
+ * look-alikes belong to this deck. A change that one of the linked decks cannot take (a name
+ * another of its target types has, a category the deck does not hold) is refused naming that deck,
+ * with nothing changed.
+ */
 export function patchTargetType(actor: Actor, deck: DeckRow, type: TypeRow, patch: TargetTypePatch) {
   const category = patch.category ? typeCategoryFor(deck, patch.category) : type.category as TypeCategory
   const features = cleanFeatures(category, patch.features ?? (category === type.category ? type.features : {}))
   const lookAlikes = patch.lookAlikes ? checkLookAlikes(deck.id, type.id, patch.lookAlikes) : null
+  const rows = definitionRows(type.definitionId)
+  for (const row of rows) {
+    if (row.deckId === deck.id) continue
+    if (category !== type.category && row.deckCategory !== 'mixed' && row.deckCategory !== category) {
+      throw conflict(`category: "${row.deckTitle}" shares this target type and is a deck of ${row.deckCategory}; stop sharing it there first. Nothing was changed.`)
+    }
+  }
+  if (patch.name !== undefined && patch.name !== type.name) {
+    const clash = nameClash(rows.map(r => r.deckId), patch.name, type.definitionId)
+    if (clash === deck.id) throw conflict('A target type of that name is already in this deck.')
+    if (clash) throw conflict(`name: "${rows.find(r => r.deckId === clash)!.deckTitle}" shares this target type and already has a target type named "${patch.name}". Nothing was changed.`)
+  }
   const { lookAlikes: _l, ...fields } = patch
   try {
     useDb().transaction((tx) => {
-      tx.update(tables.targetTypes).set({ ...fields, category, features, updatedAt: Date.now() }).where(eq(tables.targetTypes.id, type.id)).run()
+      tx.update(tables.targetTypes).set({ ...fields, category, features, updatedAt: Date.now() }).where(eq(tables.targetTypes.definitionId, type.definitionId)).run()
       if (lookAlikes) writeLookAlikes(tx, type.id, lookAlikes)
     })
   }
   catch (e) { uniqueName(e) }
-  audit(actor, 'target-type.update', 'target_type', type.id, { ...patch })
+  audit(actor, 'target-type.update', 'target_type', type.id, { ...patch, ...(rows.length > 1 ? { deckIds: rows.map(r => r.deckId) } : {}) })
+}
+
+/** Every deck's row of one shared definition, with its deck, oldest first. */
+function definitionRows(definitionId: string) {
+  return useDb().select({ id: tables.targetTypes.id, deckId: tables.decks.id, deckTitle: tables.decks.title, deckCategory: tables.decks.category })
+    .from(tables.targetTypes).innerJoin(tables.decks, eq(tables.decks.id, tables.targetTypes.deckId))
+    .where(eq(tables.targetTypes.definitionId, definitionId)).orderBy(asc(tables.targetTypes.createdAt), asc(tables.targetTypes.id)).all()
+}
+
+/** The first of these decks that has a target type of this name outside the definition, or null. */
+function nameClash(deckIds: string[], name: string, definitionId: string) {
+  const hit = useDb().select({ deckId: tables.targetTypes.deckId }).from(tables.targetTypes)
+    .where(and(inArray(tables.targetTypes.deckId, deckIds), eq(tables.targetTypes.name, name), ne(tables.targetTypes.definitionId, definitionId))).all()
+  return deckIds.find(d => hit.some(h => h.deckId === d)) ?? null
+}
+
+/** For the target types of a deck, by definition: the other decks that use the same definition. */
+function sharedDecks(deckId: string, definitionIds: string[]) {
+  const out = new Map<string, { id: string, title: string }[]>()
+  if (!definitionIds.length) return out
+  const rows = useDb().select({ definitionId: tables.targetTypes.definitionId, id: tables.decks.id, title: tables.decks.title })
+    .from(tables.targetTypes).innerJoin(tables.decks, eq(tables.decks.id, tables.targetTypes.deckId))
+    .where(and(inArray(tables.targetTypes.definitionId, definitionIds), ne(tables.targetTypes.deckId, deckId)))
+    .orderBy(asc(tables.decks.title)).all()
+  for (const { definitionId, ...d } of rows) out.set(definitionId, [...(out.get(definitionId) ?? []), d])
+  return out
+}
+
+/**
+ * Makes this deck's row of a shared target type its own definition again: from now on its fields
+ * and views change apart from the other decks'. The other decks stay linked with each other.
+ */
+export function unlinkTargetType(actor: Actor, type: TypeRow) {
+  const rows = definitionRows(type.definitionId)
+  if (rows.length < 2) throw conflict('This target type is not shared with another deck.')
+  useDb().transaction((tx) => {
+    if (type.definitionId === type.id) {
+      // The definition took this row's id: the others move together to the oldest other row's.
+      tx.update(tables.targetTypes).set({ definitionId: rows.find(r => r.id !== type.id)!.id })
+        .where(and(eq(tables.targetTypes.definitionId, type.definitionId), ne(tables.targetTypes.id, type.id))).run()
+    }
+    else {
+      tx.update(tables.targetTypes).set({ definitionId: type.id, updatedAt: Date.now() }).where(eq(tables.targetTypes.id, type.id)).run()
+    }
+  })
+  audit(actor, 'target-type.unlink', 'target_type', type.id, { deckIds: rows.map(r => r.deckId) })
+  return { definitionId: type.id }
 }
 
 function typeDrilled(typeId: string) {
@@ -414,7 +483,7 @@ function trashFiles(rows: { snapshot: { variants: Record<string, unknown>[] } }[
 }
 
 // Of these files, those no rendering and no removed view names any more: a file is shared by the
-// copies of a target type (copyTargetType), so it is deleted only with its last user.
+// decks' rows of a shared target type (linkTargetType, storeView), so it is deleted only with its last user.
 function unusedFiles(files: string[]) {
   if (!files.length) return []
   const used = new Set(useDb().select({ file: tables.variants.file }).from(tables.variants).where(inArray(tables.variants.file, files)).all().map(v => v.file))
@@ -438,27 +507,51 @@ function trashedFilesOfTypes(typeIds: string[]) {
   return trashFiles(useDb().select().from(tables.removedViews).where(inArray(tables.removedViews.targetTypeId, typeIds)).all())
 }
 
-/** Moves a view and its renderings' rows to the trash; the files stay until the trash is purged. */
-export async function deleteView(actor: Actor, deck: DeckRow, view: ViewRow, nowMs = Date.now()) {
-  const db = useDb()
-  const used = db.select({ id: tables.sightings.id }).from(tables.sightings)
-    .innerJoin(tables.variants, eq(tables.variants.id, tables.sightings.variantId))
-    .where(eq(tables.variants.viewId, view.id)).get()
-  if (used) throw conflict('This view has been shown in watches, so it stays with their history.')
-  const variants = db.select().from(tables.variants).where(eq(tables.variants.viewId, view.id)).all()
-  db.transaction((tx) => {
-    tx.insert(tables.removedViews).values({
-      id: view.id, deckId: deck.id, targetTypeId: view.targetTypeId, aspect: view.aspect,
-      snapshot: { view: { ...view }, variants: variants.map(v => ({ ...v })) }, removedBy: actor.id, removedAt: nowMs,
-    }).run()
-    tx.delete(tables.views).where(eq(tables.views.id, view.id)).run()
-  })
-  audit(actor, 'view.remove', 'view', view.id, { deckId: deck.id, aspect: view.aspect })
-  await purgeViewTrash(nowMs)
-  return { id: view.id, restorableUntil: nowMs + TRASH_MS }
+// The same view in the other decks that share its target type: the rows made from one upload (or
+// one link) carry the same source picture.
+function linkedViews(type: TypeRow, view: ViewRow) {
+  return useDb().select({ view: tables.views, deckId: tables.targetTypes.deckId, deckTitle: tables.decks.title }).from(tables.views)
+    .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.views.targetTypeId))
+    .innerJoin(tables.decks, eq(tables.decks.id, tables.targetTypes.deckId))
+    .where(and(eq(tables.targetTypes.definitionId, type.definitionId), eq(tables.views.sourceSha, view.sourceSha), ne(tables.views.id, view.id)))
+    .orderBy(asc(tables.decks.title)).all()
 }
 
-export interface TrashedView { id: string, targetTypeId: string, typeName: string, aspect: string, removedAt: number, restorableUntil: number }
+/**
+ * Moves a view and its renderings' rows to the trash; the files stay until the trash is purged.
+ * With `everywhere`, the same view of every deck that shares the target type goes too, each to its
+ * own deck's trash, and putting back any of them puts back all (`together` in the snapshot). A view
+ * shown in watches stays, here or in any of those decks: then nothing is removed.
+ */
+export async function deleteView(actor: Actor, deck: DeckRow, view: ViewRow, options: { everywhere?: boolean, type?: TypeRow, nowMs?: number } = {}) {
+  const nowMs = options.nowMs ?? Date.now()
+  const db = useDb()
+  const others = options.everywhere && options.type ? linkedViews(options.type, view) : []
+  const all = [{ view, deckId: deck.id, deckTitle: deck.title }, ...others]
+  for (const one of all) {
+    const used = db.select({ id: tables.sightings.id }).from(tables.sightings)
+      .innerJoin(tables.variants, eq(tables.variants.id, tables.sightings.variantId))
+      .where(eq(tables.variants.viewId, one.view.id)).get()
+    if (used && one.view.id === view.id) throw conflict('This view has been shown in watches, so it stays with their history.')
+    if (used) throw conflict(`This view has been shown in watches of "${one.deckTitle}", so it stays there with their history. Remove it from this deck only; nothing was removed.`)
+  }
+  const together = all.length > 1 ? all.map(a => a.view.id) : undefined
+  db.transaction((tx) => {
+    for (const one of all) {
+      const variants = tx.select().from(tables.variants).where(eq(tables.variants.viewId, one.view.id)).all()
+      tx.insert(tables.removedViews).values({
+        id: one.view.id, deckId: one.deckId, targetTypeId: one.view.targetTypeId, aspect: one.view.aspect,
+        snapshot: { view: { ...one.view }, variants: variants.map(v => ({ ...v })), ...(together ? { together } : {}) }, removedBy: actor.id, removedAt: nowMs,
+      }).run()
+      tx.delete(tables.views).where(eq(tables.views.id, one.view.id)).run()
+    }
+  })
+  audit(actor, 'view.remove', 'view', view.id, { deckId: deck.id, aspect: view.aspect, ...(together ? { deckIds: all.map(a => a.deckId) } : {}) })
+  await purgeViewTrash(nowMs)
+  return { id: view.id, restorableUntil: nowMs + TRASH_MS, decks: all.length }
+}
+
+export interface TrashedView { id: string, targetTypeId: string, typeName: string, aspect: string, removedAt: number, restorableUntil: number, decks: number }
 
 /** The deck's removed views still in the trash, newest first. */
 export function viewTrash(deckId: string, nowMs = Date.now()): TrashedView[] {
@@ -466,7 +559,7 @@ export function viewTrash(deckId: string, nowMs = Date.now()): TrashedView[] {
     .innerJoin(tables.targetTypes, eq(tables.targetTypes.id, tables.removedViews.targetTypeId))
     .where(and(eq(tables.removedViews.deckId, deckId), gte(tables.removedViews.removedAt, nowMs - TRASH_MS)))
     .orderBy(desc(tables.removedViews.removedAt)).all()
-    .map(({ r, typeName }) => ({ id: r.id, targetTypeId: r.targetTypeId, typeName, aspect: r.aspect, removedAt: r.removedAt, restorableUntil: r.removedAt + TRASH_MS }))
+    .map(({ r, typeName }) => ({ id: r.id, targetTypeId: r.targetTypeId, typeName, aspect: r.aspect, removedAt: r.removedAt, restorableUntil: r.removedAt + TRASH_MS, decks: r.snapshot.together?.length ?? 1 }))
 }
 
 /** The trashed view if the actor owns its deck: 404 for an unknown one or one past its retention. */
@@ -480,16 +573,26 @@ export async function requireOwnTrashedView(event: H3Event, viewId: string, nowM
   return { ...found, row }
 }
 
-/** Puts a removed view back, with its renderings, as it was. */
+/**
+ * Puts a removed view back, with its renderings, as it was. A view removed from every deck that
+ * shares its target type comes back in each of them that still shares it and still has it in its trash.
+ */
 export function restoreView(actor: Actor, row: typeof tables.removedViews.$inferSelect) {
   const db = useDb()
-  const variants = row.snapshot.variants as unknown as VariantRow[]
+  const definitionOf = (typeId: string) => db.select({ d: tables.targetTypes.definitionId }).from(tables.targetTypes).where(eq(tables.targetTypes.id, typeId)).get()?.d
+  const others = row.snapshot.together?.length
+    ? db.select().from(tables.removedViews).where(and(inArray(tables.removedViews.id, row.snapshot.together), ne(tables.removedViews.id, row.id))).all()
+        .filter(o => definitionOf(o.targetTypeId) === definitionOf(row.targetTypeId))
+    : []
   db.transaction((tx) => {
-    tx.insert(tables.views).values(row.snapshot.view as unknown as ViewRow).run()
-    for (const v of variants) tx.insert(tables.variants).values(v).run()
-    tx.delete(tables.removedViews).where(eq(tables.removedViews.id, row.id)).run()
+    for (const one of [row, ...others]) {
+      tx.insert(tables.views).values(one.snapshot.view as unknown as ViewRow).run()
+      for (const v of one.snapshot.variants as unknown as VariantRow[]) tx.insert(tables.variants).values(v).run()
+      tx.delete(tables.removedViews).where(eq(tables.removedViews.id, one.id)).run()
+    }
   })
-  audit(actor, 'view.restore', 'view', row.id, { deckId: row.deckId, aspect: row.aspect })
+  audit(actor, 'view.restore', 'view', row.id, { deckId: row.deckId, aspect: row.aspect, ...(others.length ? { deckIds: [row.deckId, ...others.map(o => o.deckId)] } : {}) })
+  return { decks: 1 + others.length }
 }
 
 /** Does the actor manage (own, or administer) the deck that uses this rendering? See managesDeck. */
@@ -504,20 +607,38 @@ export function fileVisibleTo(actor: Actor, file: string) {
 
 // ---------------------------------------------------------------- the instructor's library
 
-/** Every target type of the instructor's own decks, to copy into another deck. */
-export function typeLibrary(actor: Actor) {
-  return useSqlite().prepare(`SELECT t.id, t.name, t.category, d.id AS deckId, d.title AS deckTitle,
+/**
+ * The instructor's library: each shared definition among their own decks' target types, with the
+ * decks that use it, and the row to link from (the one with the most views).
+ */
+export function typeLibrary(actor: Actor): LibraryType[] {
+  const rows = useSqlite().prepare(`SELECT t.id, t.definition_id AS definitionId, t.name, t.category, d.id AS deckId, d.title AS deckTitle,
     (SELECT count(*) FROM views v WHERE v.target_type_id = t.id) AS views
     FROM target_types t JOIN decks d ON d.id = t.deck_id WHERE d.owner_id = ? ORDER BY t.name, d.title`).all(actor.id) as
-    { id: string, name: string, category: string, deckId: string, deckTitle: string, views: number }[]
+    { id: string, definitionId: string, name: string, category: TypeCategory, deckId: string, deckTitle: string, views: number }[]
+  const byDefinition = new Map<string, LibraryType>()
+  for (const r of rows) {
+    const entry = byDefinition.get(r.definitionId)
+    if (!entry) {
+      byDefinition.set(r.definitionId, { id: r.id, definitionId: r.definitionId, name: r.name, category: r.category, views: r.views, decks: [{ id: r.deckId, title: r.deckTitle }] })
+      continue
+    }
+    entry.decks.push({ id: r.deckId, title: r.deckTitle })
+    if (r.views > entry.views) Object.assign(entry, { id: r.id, views: r.views })
+  }
+  return [...byDefinition.values()]
 }
 
 /**
- * Copies one of the instructor's target types, with its views, into this deck: the views' renderings
- * are shared (new rows naming the same files), so nothing is uploaded or rendered again. Look-alikes
- * belong to a deck and are not copied.
+ * Uses one of the instructor's target types in this deck: the deck gets its own row of the type's
+ * shared definition (tracks, calls and sightings name the row), with the source row's views, whose
+ * renderings are shared (new rows naming the same files), so nothing is uploaded or rendered again.
+ * Look-alikes belong to a deck and are not linked.
  */
-export function copyTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
+export function linkTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
+  const already = useDb().select({ id: tables.targetTypes.id }).from(tables.targetTypes)
+    .where(and(eq(tables.targetTypes.deckId, deck.id), eq(tables.targetTypes.definitionId, source.definitionId))).get()
+  if (already) throw conflict('targetTypeId: This target type is already in this deck.')
   const category = typeCategoryFor(deck, source.category as TypeCategory)
   const db = useDb()
   const views = db.select().from(tables.views).where(eq(tables.views.targetTypeId, source.id)).all()
@@ -525,7 +646,7 @@ export function copyTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
   const id = newId()
   try {
     db.transaction((tx) => {
-      tx.insert(tables.targetTypes).values({ id, deckId: deck.id, name: source.name, category, affiliation: source.affiliation, sizeM: source.sizeM, features: source.features }).run()
+      tx.insert(tables.targetTypes).values({ id, definitionId: source.definitionId, deckId: deck.id, name: source.name, category, affiliation: source.affiliation, sizeM: source.sizeM, features: source.features }).run()
       for (const v of views) {
         const viewId = newId()
         tx.insert(tables.views).values({ id: viewId, targetTypeId: id, aspect: v.aspect, sourceSha: v.sourceSha, width: v.width, height: v.height }).run()
@@ -536,7 +657,7 @@ export function copyTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
     })
   }
   catch (e) { uniqueName(e) }
-  audit(actor, 'target-type.copy', 'target_type', id, { deckId: deck.id, from: source.id, views: views.length })
+  audit(actor, 'target-type.link', 'target_type', id, { deckId: deck.id, from: source.id, definitionId: source.definitionId, views: views.length })
   return id
 }
 

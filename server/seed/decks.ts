@@ -37,7 +37,7 @@ export async function seedDecks(db: GlintDb, ctx: SeedContext) {
       tx.insert(t.decks).values({ id: deckId, ...spec, ownerId: owner.id, status: 'draft' }).run()
       for (const d of types) {
         tx.insert(t.targetTypes).values({
-          id: typeIds.get(d.key)!, deckId, name: d.name, category: d.category, affiliation: d.affiliation, sizeM: d.sizeMetres, features: d.features,
+          id: typeIds.get(d.key)!, definitionId: typeIds.get(d.key)!, deckId, name: d.name, category: d.category, affiliation: d.affiliation, sizeM: d.sizeMetres, features: d.features,
         }).run()
       }
       for (const [a, b] of LOOK_ALIKE_PAIRS) {

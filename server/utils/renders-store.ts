@@ -54,7 +54,7 @@ export function renderFileName(sha256: string) {
 }
 
 /** A view of the same picture for this target type already exists. */
-export function hasSameView(db: GlintDb, targetTypeId: string, sourceSha: string) {
+export function hasSameView(db: Pick<GlintDb, 'select'>, targetTypeId: string, sourceSha: string) {
   return !!db.select({ id: t.views.id }).from(t.views)
     .where(and(eq(t.views.targetTypeId, targetTypeId), eq(t.views.sourceSha, sourceSha))).get()
 }
@@ -92,15 +92,23 @@ export async function storeView(db: GlintDb, uploadsDir: string, view: ViewToSto
     }
     const id = newId()
     db.transaction((tx) => {
-      const type = tx.select({ id: t.targetTypes.id }).from(t.targetTypes).where(eq(t.targetTypes.id, view.targetTypeId)).get()
+      const type = tx.select({ id: t.targetTypes.id, definitionId: t.targetTypes.definitionId }).from(t.targetTypes).where(eq(t.targetTypes.id, view.targetTypeId)).get()
       if (!type) throw new StoreRefused('The target type was removed while the picture was processed.')
-      tx.insert(t.views).values({
-        id, targetTypeId: view.targetTypeId, aspect: view.aspect, sourceSha: view.source.sha256, width: view.source.width, height: view.source.height,
-      }).run()
-      for (const r of view.renderings) {
-        tx.insert(t.variants).values({
-          id: newId(), viewId: id, condition: r.condition, width: r.width, height: r.height, bytes: r.bytes, contrast: r.contrast, file: renderFileName(r.sha256),
+      // A view belongs to the target type's shared definition: every deck's row of it gets the view
+      // (its own rows, the same files), unless that row has this picture already. Rows linked while
+      // the picture was processed are included: they are read here, in the same transaction.
+      const rows = tx.select({ id: t.targetTypes.id }).from(t.targetTypes).where(eq(t.targetTypes.definitionId, type.definitionId)).all()
+      for (const row of rows) {
+        if (row.id !== type.id && hasSameView(tx, row.id, view.source.sha256)) continue
+        const viewId = row.id === type.id ? id : newId()
+        tx.insert(t.views).values({
+          id: viewId, targetTypeId: row.id, aspect: view.aspect, sourceSha: view.source.sha256, width: view.source.width, height: view.source.height,
         }).run()
+        for (const r of view.renderings) {
+          tx.insert(t.variants).values({
+            id: newId(), viewId, condition: r.condition, width: r.width, height: r.height, bytes: r.bytes, contrast: r.contrast, file: renderFileName(r.sha256),
+          }).run()
+        }
       }
     })
     return id

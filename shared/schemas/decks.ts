@@ -121,10 +121,27 @@ export const TargetTypePatch = z.object({
 }).strict()
 export type TargetTypePatch = z.infer<typeof TargetTypePatch>
 
-// Copying one of the instructor's target types (with its views) into a deck.
-export const TypeCopyBody = z.object({
+// Using one of the instructor's shared target types in a deck: the deck gets its own row of the
+// type's definition, linked to the others (same fields, views uploaded once).
+export const TypeLinkBody = z.object({
   targetTypeId: Id,
 }).strict()
+
+// Removing a view of a shared target type: from this deck only (the default) or from every deck
+// that shares the type.
+export const ViewRemoveQuery = z.object({
+  everywhere: z.enum(['true', 'false'], { error: 'everywhere: Use true or false.' }).optional(),
+}).strict()
+
+/** One shared definition in the instructor's library: the decks that use it, and a row to link from. */
+export interface LibraryType {
+  id: string
+  definitionId: string
+  name: string
+  category: TypeCategory
+  views: number
+  decks: { id: string, title: string }[]
+}
 
 /** A sentence for a feature record that does not fit its category, or null when it fits. */
 export function featuresProblem(category: TypeCategory, features: Record<string, string>): string | null {
@@ -162,6 +179,8 @@ export interface BuilderTargetType {
   features: Record<string, string>
   lookAlikes: string[]
   views: BuilderView[]
+  // The other decks that use the same shared definition (empty when it is this deck's own).
+  sharedWith: { id: string, title: string }[]
 }
 export interface BuilderDeck {
   id: string

@@ -47,7 +47,14 @@ beforeAll(async () => {
   const ownDeck = readDb(db => db.prepare('SELECT d.id FROM decks d JOIN users u ON u.id = d.owner_id WHERE u.email = ? ORDER BY d.title').pluck().get(EMAIL.instructor)) as string
   pages.anon = ['/login', '/reset', '/invite']
   pages.trainee = ['/', '/watch', '/scan', '/baseline', '/people/me', '/checks', `/checks/take/${check.body.id}`, '/settings']
-  pages.instructor = ['/', '/decks', `/decks/${ownDeck}`, '/scan/drills', '/checks', '/confusions', `/confusions/${ownDeck}`, '/settings']
+  // A target type of that deck shared with another of the instructor's decks (issue 17, item 5), so
+  // both builders show their "Shared with" line, and the second (one type, shown unfolded) its sharing panel.
+  const sharedDeck = await instructor.post('/api/decks', { title: `Shared coastal types ${Date.now().toString(36)}`, category: 'mixed' })
+  expect(sharedDeck.status, sharedDeck.text).toBe(201)
+  const firstType = readDb(db => db.prepare('SELECT id FROM target_types WHERE deck_id = ? ORDER BY name').pluck().get(ownDeck)) as string
+  const link = await instructor.post(`/api/decks/${sharedDeck.body.id}/type-links`, { targetTypeId: firstType })
+  expect(link.status, link.text).toBe(201)
+  pages.instructor = ['/', '/decks', `/decks/${ownDeck}`, `/decks/${sharedDeck.body.id}`, '/scan/drills', '/checks', '/confusions', `/confusions/${ownDeck}`, '/settings']
   pages.lead = ['/', `/crews/${crewId}`, `/crews/${crewId}/members`, `/people/${traineeId}`, '/checks', `/checks/result/${attempt.body.attemptId}`, '/settings']
   pages.admin = ['/', '/admin', '/admin/outbox', '/admin/audit', '/settings']
   // The result page as its own trainee sees it.

@@ -1,6 +1,6 @@
 // The instructor's daily work at desktop size (issue 17): checks with a due date, changed before
 // anyone takes them and retired after, each step asserted in the database.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
 import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
@@ -111,8 +111,15 @@ describe('the changed instructor screens at 390x844', () => {
 })
 
 describe('the library of target types (issue 17, item 5)', () => {
-  it('copies a type with its views from another own deck in one step, and the new deck can be deleted without touching the original', async () => {
-    const { context, page } = await newPage(browser, DESKTOP)
+  it('uses a type from another own deck, linked: "Shared with" on both, an edit reaches both, a view goes from one deck only, and the deck stops sharing', async () => {
+    // Desktop size for an instructor, as the issue's brief for this item asks (1280x800), at a local
+    // noon so that the "auto" theme is the day one and the screenshots read well (IANA's Etc/GMT
+    // zones carry the opposite sign: Etc/GMT-2 is UTC+2).
+    const offset = ((12 - new Date().getUTCHours() + 36) % 24) - 12
+    const context = await browser.newContext({
+      viewport: { width: 1280, height: 800 }, baseURL: inject('baseUrl'), timezoneId: offset === 0 ? 'Etc/GMT' : `Etc/GMT${offset > 0 ? '-' : '+'}${Math.abs(offset)}`,
+    })
+    const page = await context.newPage()
     await signIn(page, 'instructor@glint.demo')
     await page.goto('/decks')
     const title = `Library trial ${Date.now().toString(36)}`
@@ -120,23 +127,60 @@ describe('the library of target types (issue 17, item 5)', () => {
     await page.getByRole('button', { name: 'Create the deck' }).click()
     await page.waitForURL(/\/decks\/[\w-]{8,}$/)
     await page.getByRole('heading', { level: 1, name: title }).waitFor()
-    const source = readDb(db => db.prepare(`SELECT t.id, t.name, d.title, (SELECT count(*) FROM views v WHERE v.target_type_id = t.id) AS n FROM target_types t
-      JOIN decks d ON d.id = t.deck_id WHERE t.name = 'Taskavel'`).get() as { id: string, name: string, title: string, n: number })
-    await page.getByLabel('Target type', { exact: true }).selectOption({ label: `Taskavel (${source.title}, ${source.n} views)` })
-    await shot(page, 'decks-library-copy')
-    await page.getByRole('button', { name: 'Copy into this deck' }).click()
+    const deckId = page.url().split('/').pop()!
+    const source = readDb(db => db.prepare(`SELECT t.id, t.definition_id AS definitionId, t.size_m AS sizeM, d.title, (SELECT count(*) FROM views v WHERE v.target_type_id = t.id) AS n
+      FROM target_types t JOIN decks d ON d.id = t.deck_id JOIN users u ON u.id = d.owner_id
+      WHERE t.name = 'Taskavel' AND u.email = 'instructor@glint.demo' ORDER BY t.created_at LIMIT 1`).get() as { id: string, definitionId: string, sizeM: number, title: string, n: number })
+    const users = readDb(db => db.prepare(`SELECT d.title FROM target_types t JOIN decks d ON d.id = t.deck_id WHERE t.definition_id = ? ORDER BY d.title`).pluck().all(source.definitionId) as string[])
+    // The library names the decks that already use the type, and how many.
+    const option = page.locator('#link-type option', { hasText: /^\s*Taskavel ·/ })
+    expect((await option.textContent())?.trim()).toBe(`Taskavel · used in ${users.length} deck${users.length === 1 ? '' : 's'} (${users.join(', ')}) · ${source.n} views`)
+    await page.getByLabel('Target type', { exact: true }).selectOption(await option.getAttribute('value'))
+    await shot(page, 'decks-library-link')
+    await page.getByRole('button', { name: 'Use in this deck' }).click()
     const card = page.getByRole('article', { name: 'Taskavel' })
     await card.waitFor()
     await expect.poll(() => card.getByRole('list', { name: /^Taskavel, .*, in six conditions$/ }).count()).toBe(source.n)
-    const deckId = page.url().split('/').pop()!
-    const copies = readDb(db => db.prepare(`SELECT x.file FROM variants x JOIN views v ON v.id = x.view_id JOIN target_types t ON t.id = v.target_type_id
-      WHERE t.deck_id = ? ORDER BY x.file`).pluck().all(deckId) as string[])
-    const originals = readDb(db => db.prepare(`SELECT x.file FROM variants x JOIN views v ON v.id = x.view_id WHERE v.target_type_id = ? ORDER BY x.file`).pluck().all(source.id) as string[])
-    expect(copies).toEqual(originals)
+    expect(await card.getByTestId('shared-with').textContent()).toBe(`Shared with: ${users.join(', ')}`)
+    const linked = readDb(db => db.prepare('SELECT id, definition_id AS definitionId FROM target_types WHERE deck_id = ?').get(deckId) as { id: string, definitionId: string })
+    expect(linked.definitionId).toBe(source.definitionId)
+    const filesOf = (typeId: string) => readDb(db => db.prepare(`SELECT x.file FROM variants x JOIN views v ON v.id = x.view_id WHERE v.target_type_id = ? ORDER BY x.file`).pluck().all(typeId) as string[])
+    const originals = filesOf(source.id)
+    expect(filesOf(linked.id)).toEqual(originals)
+
+    // An edit here reaches the source deck's row.
+    await card.getByText('Name, size, features and look-alikes').click()
+    await card.getByLabel('Span (m)').fill('23.5')
+    await card.getByRole('button', { name: 'Save the target type' }).click()
+    await card.getByText('Saved here and in the other deck that shares it.').or(card.getByText(/Saved here and in the \d+ other decks that share it\./)).waitFor()
+    const sizeOf = (id: string) => readDb(db => db.prepare('SELECT size_m FROM target_types WHERE id = ?').pluck().get(id)) as number
+    expect([sizeOf(source.id), sizeOf(linked.id)]).toEqual([23.5, 23.5])
+    await shot(page, 'decks-builder-shared')
+
+    // A view goes from this deck only: the dialog says what each choice does.
+    await card.getByRole('button', { name: 'Remove this view' }).first().click()
+    const dialog = page.getByRole('dialog', { name: /^Remove the .* view of Taskavel\?$/ })
+    await dialog.waitFor()
+    expect(await dialog.textContent()).toContain(`From this deck only: it leaves this deck's watches at once; ${users.join(', ')} keep it.`)
+    await shot(page, 'decks-remove-shared-view')
+    await dialog.getByRole('button', { name: 'Remove from this deck only' }).click()
+    await expect.poll(() => readDb(db => db.prepare('SELECT count(*) FROM views WHERE target_type_id = ?').pluck().get(linked.id))).toBe(source.n - 1)
+    expect(readDb(db => db.prepare('SELECT count(*) FROM views WHERE target_type_id = ?').pluck().get(source.id))).toBe(source.n)
+    await page.getByTestId('removed-view').filter({ hasText: 'Taskavel' }).waitFor()
+
+    // The deck stops sharing: its row is its own definition, and the line is gone.
+    await card.getByRole('button', { name: 'Stop sharing in this deck' }).click()
+    await page.getByRole('dialog', { name: 'Stop sharing Taskavel in this deck?' }).getByRole('button', { name: 'Stop sharing', exact: true }).click()
+    await card.getByTestId('shared-with').waitFor({ state: 'detached' })
+    expect(readDb(db => db.prepare('SELECT definition_id FROM target_types WHERE id = ?').pluck().get(linked.id))).toBe(linked.id)
+    expect(readDb(db => db.prepare('SELECT definition_id FROM target_types WHERE id = ?').pluck().get(source.id))).toBe(source.definitionId)
+
+    // The source deck's size as it was, then this deck goes; the original's pictures stay.
+    const put = await page.request.patch(`/api/target-types/${source.id}`, { data: { sizeM: source.sizeM }, headers: { origin: new URL(page.url()).origin } })
+    expect(put.status()).toBe(200)
     await page.getByRole('button', { name: 'Delete' }).click()
     await page.getByRole('dialog', { name: 'Delete this deck?' }).getByRole('button', { name: 'Delete the deck' }).click()
     await page.waitForURL(/\/decks$/)
-    // The original's pictures are still served to their owner.
     for (const f of originals.slice(0, 3)) expect((await page.request.get(`/images/${f}`)).status(), f).toBe(200)
     await context.close()
   })

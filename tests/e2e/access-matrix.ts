@@ -48,9 +48,11 @@ export const MATRIX: Record<string, Entry> = {
   // The trash of removed views (issue 17, item 4): its deck's owner only.
   'GET /api/decks/:deck/trash': deckOwner,
   'POST /api/views/:view/restore': deckOwner,
-  // The instructor's library of target types (issue 17, item 5): their own decks' types, copied into their own deck.
+  // The instructor's library of target types (issue 17, item 5): their own decks' types, used (linked) in
+  // their own deck; a deck's row of a shared type is unlinked by the deck's owner only.
   'GET /api/target-types/library': { anon: 401, trainee: 403, instructor: 'pass', lead: 403, admin: 403 },
-  'POST /api/decks/:deck/type-copies': deckOwner,
+  'POST /api/decks/:deck/type-links': deckOwner,
+  'POST /api/target-types/:target-type/unlink': deckOwner,
   // An upload job is its uploader's only (an instructor's); nobody else learns it exists.
   'GET /api/jobs/:job': { anon: 401, trainee: 404, instructor: 'ok', lead: 404, admin: 404 },
   'POST /api/watches': { anon: 401, trainee: 'ok', instructor: 403, lead: 403, admin: 403 },

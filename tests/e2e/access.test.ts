@@ -114,10 +114,15 @@ const REQUESTS: Record<string, Build> = {
     return { params: { view } }
   },
   'GET /api/decks/:deck/trash': s => ({ params: { deck: s.draftDeck } }),
-  'POST /api/decks/:deck/type-copies': async s => ({
-    params: { deck: (await ok(s.instructor.client.post('/api/decks', { title: unique('Matrix copy target'), category: 'aircraft' }), 'deck')).id },
+  'POST /api/decks/:deck/type-links': async s => ({
+    params: { deck: (await ok(s.instructor.client.post('/api/decks', { title: unique('Matrix link target'), category: 'aircraft' }), 'deck')).id },
     body: { targetTypeId: s.draftType },
   }),
+  'POST /api/target-types/:target-type/unlink': async (s) => {
+    // The side's draft type, used in a new deck of the same instructor: that deck's row is shared.
+    const deck = (await ok(s.instructor.client.post('/api/decks', { title: unique('Matrix unlink'), category: 'aircraft' }), 'deck')).id as string
+    return { params: { 'target-type': (await ok(s.instructor.client.post(`/api/decks/${deck}/type-links`, { targetTypeId: s.draftType }), 'link')).id } }
+  },
   'POST /api/views/:view/restore': (s) => {
     // A view in the draft deck's trash, as DELETE /api/views/:view leaves it.
     const view = randomBytes(16).toString('base64url')

@@ -251,34 +251,34 @@ describe('the same picture uploaded again while its view waits in the trash', ()
 })
 
 describe('the instructor\'s library of target types (issue 17, item 5)', () => {
-  it('copies a type with its views into another own deck, sharing the renderings, and deleting the copy keeps the original\'s files', async () => {
+  it('links a type with its views into another own deck, sharing the renderings, and removing the linked row keeps the original\'s files', async () => {
     const source = types[5]!
     const target = (await owner.client.post('/api/decks', { title: `Library target ${Date.now().toString(36)}`, category: 'aircraft' })).body.id as string
     const library = await owner.client.get('/api/target-types/library')
     expect(library.status).toBe(200)
-    expect(library.body).toContainEqual(expect.objectContaining({ id: source.id, name: source.name, deckId, views: viewsOf(source.id).length }))
-    const copied = await owner.client.post(`/api/decks/${target}/type-copies`, { targetTypeId: source.id })
-    expect(copied.status, copied.text).toBe(201)
-    const copyId = copied.body.id as string
-    const row = (id: string) => readDb(db => db.prepare('SELECT deck_id AS deckId, name, features, size_m AS sizeM FROM target_types WHERE id = ?').get(id) as { deckId: string, name: string, features: string, sizeM: number })
-    expect(row(copyId)).toEqual({ ...row(source.id), deckId: target })
+    expect(library.body).toContainEqual(expect.objectContaining({ id: source.id, name: source.name, views: viewsOf(source.id).length, decks: [expect.objectContaining({ id: deckId })] }))
+    const linked = await owner.client.post(`/api/decks/${target}/type-links`, { targetTypeId: source.id })
+    expect(linked.status, linked.text).toBe(201)
+    const linkId = linked.body.id as string
+    const row = (id: string) => readDb(db => db.prepare('SELECT deck_id AS deckId, definition_id AS definitionId, name, features, size_m AS sizeM FROM target_types WHERE id = ?').get(id) as { deckId: string, definitionId: string, name: string, features: string, sizeM: number })
+    expect(row(linkId)).toEqual({ ...row(source.id), deckId: target })
     const filesOfType = (typeId: string) => readDb(db => db.prepare(`SELECT x.file FROM variants x JOIN views v ON v.id = x.view_id WHERE v.target_type_id = ? ORDER BY x.file`).pluck().all(typeId) as string[])
     const originals = filesOfType(source.id)
     expect(originals.length).toBeGreaterThan(0)
-    expect(filesOfType(copyId)).toEqual(originals)
-    expect(viewsOf(copyId).map(v => v.aspect)).toEqual(viewsOf(source.id).map(v => v.aspect))
-    expect(auditOf('target-type.copy', copyId)).toEqual([{ actorId: owner.id }])
-    // Once is enough: the same name again, or a copy into its own deck, is refused with a sentence.
-    const twice = await owner.client.post(`/api/decks/${target}/type-copies`, { targetTypeId: source.id })
+    expect(filesOfType(linkId)).toEqual(originals)
+    expect(viewsOf(linkId).map(v => v.aspect)).toEqual(viewsOf(source.id).map(v => v.aspect))
+    expect(auditOf('target-type.link', linkId)).toEqual([{ actorId: owner.id }])
+    // Once is enough: the same type again, or into its own deck, is refused with a sentence.
+    const twice = await owner.client.post(`/api/decks/${target}/type-links`, { targetTypeId: source.id })
     expect(twice.status).toBe(409)
-    expect(twice.body.message).toBe('A target type of that name is already in this deck.')
-    expect((await owner.client.post(`/api/decks/${deckId}/type-copies`, { targetTypeId: source.id })).status).toBe(409)
-    // Another instructor cannot copy it into a deck of their own.
+    expect(twice.body.message).toBe('targetTypeId: This target type is already in this deck.')
+    expect((await owner.client.post(`/api/decks/${deckId}/type-links`, { targetTypeId: source.id })).status).toBe(409)
+    // Another instructor cannot link it into a deck of their own.
     const other = await directPerson(['instructor'], crewId)
     const theirs = (await other.client.post('/api/decks', { title: `Other library ${Date.now().toString(36)}`, category: 'aircraft' })).body.id as string
-    expect((await other.client.post(`/api/decks/${theirs}/type-copies`, { targetTypeId: source.id })).status).toBeOneOf([403, 404])
-    // The copy goes; the original keeps its renderings on disk.
-    expect((await owner.client.del(`/api/target-types/${copyId}`)).status).toBe(200)
+    expect((await other.client.post(`/api/decks/${theirs}/type-links`, { targetTypeId: source.id })).status).toBeOneOf([403, 404])
+    // The linked row goes; the original keeps its renderings on disk.
+    expect((await owner.client.del(`/api/target-types/${linkId}`)).status).toBe(200)
     for (const f of originals) expect(onDisk(f), f).toBe(true)
     expect(filesOfType(source.id)).toEqual(originals)
   })

@@ -1,4 +1,4 @@
-// The instructor's library: the target types of all their own decks, to copy into another.
+// The instructor's library: the shared target types of their own decks, with the decks using each.
 import { typeLibrary } from '../../domain/decks'
 
 export default defineEventHandler(async (event) => {

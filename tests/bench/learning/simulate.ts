@@ -84,13 +84,13 @@ export function makePeople(count: number, params: LearnerParams, items: number, 
   }))
 }
 
-interface Item {
+export interface Item {
   index: number
   type: number
   aspect: string
 }
 
-function deckItems(deck: DeckSetup): Item[] {
+export function deckItems(deck: DeckSetup): Item[] {
   const out: Item[] = []
   for (let type = 0; type < deck.types; type++) {
     for (const aspect of deck.aspects) out.push({ index: out.length, type, aspect })
@@ -99,7 +99,7 @@ function deckItems(deck: DeckSetup): Item[] {
 }
 
 // Look-alike types come in pairs (0 and 1, 2 and 3, ...); an item's look-alike is its twin type at the same aspect.
-function lookalikes(deck: DeckSetup, items: readonly Item[]): number[] {
+export function lookalikes(deck: DeckSetup, items: readonly Item[]): number[] {
   return items.map((it) => {
     const twin = it.type ^ 1
     return twin < deck.types ? items.find(o => o.type === twin && o.aspect === it.aspect)!.index : -1
@@ -107,7 +107,7 @@ function lookalikes(deck: DeckSetup, items: readonly Item[]): number[] {
 }
 
 // The choices of a sighting, as Glint offers them: the look-alike first, then other types of the same aspect at random.
-function choicesFor(item: Item, items: readonly Item[], look: readonly number[], deck: DeckSetup, rng: Rng): number[] {
+export function choicesFor(item: Item, items: readonly Item[], look: readonly number[], deck: DeckSetup, rng: Rng): number[] {
   const out = [item.index]
   if (look[item.index]! >= 0) out.push(look[item.index]!)
   const others = items.filter(o => o.aspect === item.aspect && !out.includes(o.index))
@@ -139,8 +139,8 @@ const RATE: Record<'glint' | 'selfRated' | 'selfRatedNoisy', RateFn> = {
 const LEITNER_DAYS = [0, 1, 2, 4, 8, 16]
 
 // A sighting's time on the phone: the call, then a 2 s reveal and the next image (design value).
-const REVEAL_MS = 2000
-const INTRODUCTION_MS = 4000
+export const REVEAL_MS = 2000
+export const INTRODUCTION_MS = 4000
 const MAX_RESHOWS = 2
 
 // Every schedule spends the same budget: what its own rule leaves free is filled, for the FSRS
@@ -306,7 +306,7 @@ export function runPerson(person: Person, policy: Policy, setup: RunSetup): Pers
   return { ready: false, sightings, days: maxDays, ...retentionTest(learner, items.length, clock, setup) }
 }
 
-function retentionTest(learner: Learner, count: number, endMs: number, setup: RunSetup) {
+export function retentionTest(learner: Learner, count: number, endMs: number, setup: RunSetup) {
   const at = (endMs + setup.testAfterDays * DAY_MS) / 1000
   let recall = 0
   const latencies: number[] = []

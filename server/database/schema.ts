@@ -1,6 +1,8 @@
 // Glint's tables. Ids are random (not guessable in URLs); times are milliseconds since the epoch.
 import { sql } from 'drizzle-orm'
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
+import type { Affiliation, AnswerMode, DeckCategory, DeckStatus, TypeCategory } from '../../shared/schemas/decks'
+import type { Role } from '../../shared/types/roles'
 
 const now = sql`(unixepoch('subsec') * 1000)`
 const timestamps = {
@@ -18,7 +20,7 @@ export const users = sqliteTable('users', {
   disabled: integer('disabled', { mode: 'boolean' }).notNull().default(false),
   // Raised on sign-out and disable: sessions carrying an older value are refused.
   sessionVersion: integer('session_version').notNull().default(1),
-  nightMode: text('night_mode').notNull().default('auto'), // auto | day | night
+  nightMode: text('night_mode').$type<'auto' | 'day' | 'night'>().notNull().default('auto'),
   remindersOptOut: integer('reminders_opt_out', { mode: 'boolean' }).notNull().default(false),
   // A lead's own choice to stop the weekly crew digest.
   digestOptOut: integer('digest_opt_out', { mode: 'boolean' }).notNull().default(false),
@@ -27,7 +29,7 @@ export const users = sqliteTable('users', {
 
 export const userRoles = sqliteTable('user_roles', {
   userId: text('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
-  role: text('role').notNull(), // trainee | instructor | lead | admin
+  role: text('role').$type<Role>().notNull(),
 }, t => [primaryKey({ columns: [t.userId, t.role] })])
 
 export const crews = sqliteTable('crews', {
@@ -52,7 +54,7 @@ export const invitations = sqliteTable('invitations', {
   id: text('id').primaryKey(),
   tokenHash: text('token_hash').notNull(),
   email: text('email').notNull(),
-  role: text('role').notNull(),
+  role: text('role').$type<Role>().notNull(),
   crewId: text('crew_id').references(() => crews.id, { onDelete: 'cascade' }),
   invitedBy: text('invited_by').notNull().references(() => users.id),
   expiresAt: integer('expires_at').notNull(),
@@ -100,15 +102,15 @@ export const decks = sqliteTable('decks', {
   id: text('id').primaryKey(),
   title: text('title').notNull(),
   description: text('description').notNull().default(''),
-  category: text('category').notNull(), // aircraft | vessel | mixed
+  category: text('category').$type<DeckCategory>().notNull(), // aircraft | vessel | mixed
   ownerId: text('owner_id').notNull().references(() => users.id),
-  status: text('status').notNull().default('draft'), // draft | published | archived
+  status: text('status').$type<DeckStatus>().notNull().default('draft'),
   hesitationMs: integer('hesitation_ms').notNull().default(1500),
   windowMs: integer('window_ms').notNull().default(5000),
   newPerDay: integer('new_per_day').notNull().default(10),
   retention: real('retention').notNull().default(0.9),
   choiceCount: integer('choice_count').notNull().default(4),
-  answerMode: text('answer_mode').notNull().default('choices'), // choices | typed
+  answerMode: text('answer_mode').$type<AnswerMode>().notNull().default('choices'),
   minExposureMs: integer('min_exposure_ms').notNull().default(200),
   ...timestamps,
 })
@@ -122,8 +124,8 @@ export const targetTypes = sqliteTable('target_types', {
   id: text('id').primaryKey(),
   deckId: text('deck_id').notNull().references(() => decks.id, { onDelete: 'cascade' }),
   name: text('name').notNull(),
-  category: text('category').notNull(), // aircraft | vessel
-  affiliation: text('affiliation').notNull(), // friendly | hostile | neutral
+  category: text('category').$type<TypeCategory>().notNull(),
+  affiliation: text('affiliation').$type<Affiliation>().notNull(),
   sizeM: real('size_m').notNull(),
   features: text('features', { mode: 'json' }).notNull().$type<Record<string, string>>(),
   // The shared definition this row is one deck's use of: every deck that uses a library type has

@@ -4,6 +4,9 @@ import type { SQL } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/sqlite-core'
 import type { Role } from '#shared/types/roles'
 import type { Actor } from '../utils/gate'
+import { createError } from 'h3'
+import { audit } from '../utils/audit'
+import { tables, useDb } from '../utils/db'
 
 // LIKE with the search's own % and _ taken literally.
 export function likePattern(q: string) {
@@ -45,7 +48,7 @@ export function listPeople(q: string, page: number, size: number): { total: numb
     total,
     people: rows.map((r) => {
       const own = crews.filter(c => c.userId === r.id).map(c => ({ id: c.id, name: c.name }))
-      return { ...r, roles: roles.filter(x => x.userId === r.id).map(x => x.role as Role), crews: own, crewIds: own.map(c => c.id) }
+      return { ...r, roles: roles.filter(x => x.userId === r.id).map(x => x.role), crews: own, crewIds: own.map(c => c.id) }
     }),
   }
 }

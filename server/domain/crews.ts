@@ -5,6 +5,11 @@ import type { CrewPatch } from '#shared/schemas/auth'
 import type { z } from 'zod'
 import type { Actor } from '../utils/gate'
 import { crewFitView, startCrewFit } from './crew-fits'
+import { createError } from 'h3'
+import { audit } from '../utils/audit'
+import { tables, useDb, useSqlite } from '../utils/db'
+import { hasRole } from '../utils/gate'
+import { newId } from '../utils/ids'
 
 const nameTaken = (e: unknown) => {
   if (String(e).includes('UNIQUE')) throw createError({ statusCode: 409, message: 'A crew with that name exists.' })

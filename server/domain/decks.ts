@@ -3,9 +3,16 @@ import type { H3Event } from 'h3'
 import { and, asc, desc, eq, gte, inArray, lt, ne, or } from 'drizzle-orm'
 import { ASPECTS, CONDITIONS } from '#shared/utils/conditions'
 import { featuresProblem, settingsConflict } from '#shared/schemas/decks'
-import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, LibraryType, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
+import type { BuilderDeck, DeckPatch, DeckSettings, DeckSettingsPatch, DeckCategory, LibraryType, TargetTypeBody, TargetTypePatch, TypeCategory } from '#shared/schemas/decks'
 import type { Actor } from '../utils/gate'
 import { buildsDeck, overseesDeck } from './policy'
+import { createError } from 'h3'
+import { audit } from '../utils/audit'
+import { tables, useDb } from '../utils/db'
+import { hasRole, requireActor, requireRole } from '../utils/gate'
+import { newId } from '../utils/ids'
+import { removeRenderFiles } from '../utils/renders-store'
+// useRuntimeConfig is Nitro's (an auto-import, as in server/utils), so this module also loads outside the server.
 
 type DeckRow = typeof tables.decks.$inferSelect
 type TypeRow = typeof tables.targetTypes.$inferSelect
@@ -21,7 +28,7 @@ export function deckSettings(d: DeckRow): DeckSettings {
     newPerDay: d.newPerDay,
     retention: d.retention,
     choiceCount: d.choiceCount,
-    answerMode: d.answerMode as DeckSettings['answerMode'],
+    answerMode: d.answerMode,
     minExposureMs: d.minExposureMs,
   }
 }
@@ -161,16 +168,16 @@ export function deckBuilderDetail(deck: DeckRow): BuilderDeck {
     id: deck.id,
     title: deck.title,
     description: deck.description,
-    category: deck.category as BuilderDeck['category'],
-    status: deck.status as BuilderDeck['status'],
+    category: deck.category,
+    status: deck.status,
     settings: deckSettings(deck),
     drilled: deckDrilled(deck.id),
     crews,
     targetTypes: types.map(({ type, lookAlikes, views }) => ({
       id: type.id,
       name: type.name,
-      category: type.category as TypeCategory,
-      affiliation: type.affiliation as BuilderDeck['targetTypes'][number]['affiliation'],
+      category: type.category,
+      affiliation: type.affiliation,
       sizeM: type.sizeM,
       features: type.features,
       lookAlikes,
@@ -221,7 +228,7 @@ function checkSettings(s: DeckSettings) {
   if (conflict) throw bad(`${conflict.field}: ${conflict.message}`)
 }
 
-export function createDeck(actor: Actor, body: { title: string, description?: string, category: string, settings?: DeckSettingsPatch }) {
+export function createDeck(actor: Actor, body: { title: string, description?: string, category: DeckCategory, settings?: DeckSettingsPatch }) {
   const id = newId()
   const defaults: DeckSettings = { hesitationMs: 1500, windowMs: 5000, newPerDay: 10, retention: 0.9, choiceCount: 4, answerMode: 'choices', minExposureMs: 200 }
   const settings = { ...defaults, ...body.settings }
@@ -301,7 +308,7 @@ function typeCategoryFor(deck: DeckRow, wanted: TypeCategory | undefined): TypeC
     return wanted
   }
   if (wanted && wanted !== deck.category) throw bad(`category: This is a deck of ${deck.category}; add only ${deck.category} target types.`)
-  return deck.category as TypeCategory
+  return deck.category
 }
 
 function cleanFeatures(category: TypeCategory, features: Record<string, string>) {
@@ -360,7 +367,7 @@ export function createTargetType(actor: Actor, deck: DeckRow, body: TargetTypeBo
  * with nothing changed.
  */
 export function patchTargetType(actor: Actor, deck: DeckRow, type: TypeRow, patch: TargetTypePatch) {
-  const category = patch.category ? typeCategoryFor(deck, patch.category) : type.category as TypeCategory
+  const category = patch.category ? typeCategoryFor(deck, patch.category) : type.category
   const features = cleanFeatures(category, patch.features ?? (category === type.category ? type.features : {}))
   const lookAlikes = patch.lookAlikes ? checkLookAlikes(deck.id, type.id, patch.lookAlikes) : null
   const rows = definitionRows(type.definitionId)
@@ -487,7 +494,7 @@ function trashFiles(rows: { snapshot: { variants: Record<string, unknown>[] } }[
 function unusedFiles(files: string[]) {
   if (!files.length) return []
   const used = new Set(useDb().select({ file: tables.variants.file }).from(tables.variants).where(inArray(tables.variants.file, files)).all().map(v => v.file))
-  const trashed = new Set(useSqlite().prepare(`SELECT DISTINCT json_extract(v.value, '$.file') FROM removed_views r, json_each(r.snapshot, '$.variants') v`).pluck().all() as string[])
+  const trashed = new Set(trashFiles(useDb().select({ snapshot: tables.removedViews.snapshot }).from(tables.removedViews).all()))
   return [...new Set(files)].filter(f => !used.has(f) && !trashed.has(f))
 }
 
@@ -612,10 +619,13 @@ export function fileVisibleTo(actor: Actor, file: string) {
  * decks that use it, and the row to link from (the one with the most views).
  */
 export function typeLibrary(actor: Actor): LibraryType[] {
-  const rows = useSqlite().prepare(`SELECT t.id, t.definition_id AS definitionId, t.name, t.category, d.id AS deckId, d.title AS deckTitle,
-    (SELECT count(*) FROM views v WHERE v.target_type_id = t.id) AS views
-    FROM target_types t JOIN decks d ON d.id = t.deck_id WHERE d.owner_id = ? ORDER BY t.name, d.title`).all(actor.id) as
-    { id: string, definitionId: string, name: string, category: TypeCategory, deckId: string, deckTitle: string, views: number }[]
+  const db = useDb()
+  const t = tables.targetTypes
+  const rows = db.select({
+    id: t.id, definitionId: t.definitionId, name: t.name, category: t.category, deckId: tables.decks.id, deckTitle: tables.decks.title,
+    views: db.$count(tables.views, eq(tables.views.targetTypeId, t.id)),
+  }).from(t).innerJoin(tables.decks, eq(tables.decks.id, t.deckId)).where(eq(tables.decks.ownerId, actor.id))
+    .orderBy(t.name, tables.decks.title).all()
   const byDefinition = new Map<string, LibraryType>()
   for (const r of rows) {
     const entry = byDefinition.get(r.definitionId)
@@ -639,7 +649,7 @@ export function linkTargetType(actor: Actor, deck: DeckRow, source: TypeRow) {
   const already = useDb().select({ id: tables.targetTypes.id }).from(tables.targetTypes)
     .where(and(eq(tables.targetTypes.deckId, deck.id), eq(tables.targetTypes.definitionId, source.definitionId))).get()
   if (already) throw conflict('targetTypeId: This target type is already in this deck.')
-  const category = typeCategoryFor(deck, source.category as TypeCategory)
+  const category = typeCategoryFor(deck, source.category)
   const db = useDb()
   const views = db.select().from(tables.views).where(eq(tables.views.targetTypeId, source.id)).all()
   const variants = views.length ? db.select().from(tables.variants).where(inArray(tables.variants.viewId, views.map(v => v.id))).all() : []

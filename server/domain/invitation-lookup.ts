@@ -1,4 +1,7 @@
 import { eq } from 'drizzle-orm'
+import { createError } from 'h3'
+import { tables, useDb } from '../utils/db'
+import { hashToken } from '../utils/ids'
 
 // The invitation behind a link, or a 400 that says why the link no longer works (shown before the form).
 export function openInvitation(token: string) {

@@ -3,6 +3,11 @@ import { and, asc, desc, eq, isNull } from 'drizzle-orm'
 import type { Role } from '#shared/types/roles'
 import { ROLE_LABELS } from '#shared/types/roles'
 import type { Actor } from '../utils/gate'
+import { createError } from 'h3'
+import { audit } from '../utils/audit'
+import { tables, useDb } from '../utils/db'
+import { hashToken, newId, newToken } from '../utils/ids'
+import { appUrl, linkMail, sendMail } from '../utils/mail'
 
 export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000
 
@@ -71,7 +76,7 @@ export function pendingInvitations(): PendingInvitation[] {
     createdAt: i.createdAt, expiresAt: i.expiresAt,
   }).from(i).leftJoin(tables.crews, eq(tables.crews.id, i.crewId)).leftJoin(tables.users, eq(tables.users.id, i.invitedBy))
     .where(and(isNull(i.usedAt), isNull(i.revokedAt))).orderBy(desc(i.createdAt), asc(i.id)).all()
-    .map(r => ({ ...r, role: r.role as Role, expired: r.expiresAt <= now }))
+    .map(r => ({ ...r, role: r.role, expired: r.expiresAt <= now }))
 }
 
 export function pendingInvitation(id: string) {

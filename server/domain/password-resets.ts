@@ -1,6 +1,13 @@
 // Password resets: a single-use link by mail, and the new password it sets.
 import { and, eq, gt, isNull } from 'drizzle-orm'
 import { findUserByEmail, nextSessionVersion } from './people'
+import { createError } from 'h3'
+import { audit } from '../utils/audit'
+import { tables, useDb } from '../utils/db'
+import { hashToken, newId, newToken } from '../utils/ids'
+import { linkMail, sendMail } from '../utils/mail'
+import { assertGoodPassword } from '../utils/passwords'
+// hashPassword is nuxt-auth-utils' (a Nitro auto-import: the module declares no importable path for it).
 
 export const RESET_TTL_MS = 60 * 60 * 1000
 

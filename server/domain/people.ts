@@ -4,6 +4,12 @@ import type { z } from 'zod'
 import type { Me } from '#shared/types/roles'
 import type { PrefsPatch, UserPatch } from '#shared/schemas/auth'
 import type { Actor } from '../utils/gate'
+import { createError } from 'h3'
+import { audit } from '../utils/audit'
+import { tables, useDb } from '../utils/db'
+import { requireActor } from '../utils/gate'
+// hashPassword, verifyPassword and replaceUserSession are nuxt-auth-utils' (Nitro auto-imports: the module
+// declares no importable path for them).
 
 export function findUserByEmail(email: string) {
   return useDb().select().from(tables.users).where(eq(tables.users.email, email.toLowerCase())).get()
@@ -23,7 +29,7 @@ export function meOf(actor: Actor): Me {
     name: actor.name,
     roles: actor.roles,
     crews: crewsOf(actor.id),
-    nightMode: (user?.nightMode ?? 'auto') as Me['nightMode'],
+    nightMode: user?.nightMode ?? 'auto',
   }
 }
 

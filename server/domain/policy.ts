@@ -15,6 +15,9 @@ import type { H3Event } from 'h3'
 import type { Actor } from '../utils/gate'
 import { requireCrew } from './crews'
 import { requirePerson } from './people'
+import { createError } from 'h3'
+import { tables, useDb } from '../utils/db'
+import { hasRole, requireActor, requireRole } from '../utils/gate'
 
 // ---------------------------------------------------------------- crews
 

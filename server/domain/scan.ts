@@ -7,6 +7,11 @@ import { placeScanContacts, scoreScanPass } from '#shared/utils/scan-scene'
 import { scanPassProblem } from '#shared/utils/scan-checks'
 import type { ScanPassSummary } from '#shared/utils/scan-scene'
 import type { Actor } from '../utils/gate'
+import { createError } from 'h3'
+import { audit } from '../utils/audit'
+import { tables, useDb } from '../utils/db'
+import { hasRole } from '../utils/gate'
+import { newId } from '../utils/ids'
 
 export interface ScanDrillView {
   id: string

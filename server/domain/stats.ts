@@ -18,6 +18,7 @@ import type {
   BreakdownView, CrewConfusions, CrewStats, CrewStatsRow, DeckConfusions, DeckReadinessView, NamedPair, PairSide, PersonReport, SideBySidePair, TrendFigures,
 } from '../../shared/types/stats'
 import { statement } from '../utils/sql'
+import { useSqlite } from '../utils/db'
 
 export interface StatsFilters {
   deckId?: string

@@ -2,6 +2,8 @@
 import { desc, eq } from 'drizzle-orm'
 import type { BaselineInput } from '#shared/schemas/drill'
 import type { TapBaseline } from '#shared/types/drill'
+import { tables, useDb } from '../utils/db'
+import { newId } from '../utils/ids'
 
 export function saveTapBaseline(userId: string, input: BaselineInput): TapBaseline {
   const row = { id: newId(), userId, simpleMs: Math.round(input.simpleMs), choiceMs: Math.round(input.choiceMs), trials: input.trials, createdAt: Date.now() }

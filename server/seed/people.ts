@@ -4,6 +4,7 @@ import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import type { GlintDb } from '../database/client'
 import * as t from '../database/schema'
 import { newId } from '../utils/ids'
+import type { Role } from '../../shared/types/roles'
 
 export const DEMO_PASSWORD = 'harbour-lantern-42'
 
@@ -15,7 +16,7 @@ const DEMO_STANDARDS: Record<string, { minAccuracy: number, minCallsPerTrack: nu
   'Skerrow Point Station': { minAccuracy: 0.85, minCallsPerTrack: 1, windowDays: 35 },
 }
 
-export const DEMO_PEOPLE: { email: string, name: string, roles: string[], crews: number[] }[] = [
+export const DEMO_PEOPLE: { email: string, name: string, roles: Role[], crews: number[] }[] = [
   { email: 'admin@glint.demo', name: 'Orla Brenwick', roles: ['admin'], crews: [] },
   { email: 'instructor@glint.demo', name: 'Tamsin Quarrie', roles: ['instructor'], crews: [0, 1] },
   { email: 'lead@glint.demo', name: 'Idris Colquhane', roles: ['lead'], crews: [0] },

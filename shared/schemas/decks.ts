@@ -9,6 +9,7 @@ export const TYPE_CATEGORIES = ['aircraft', 'vessel'] as const
 export const AFFILIATIONS = ['friendly', 'hostile', 'neutral'] as const
 export const DECK_STATUSES = ['draft', 'published', 'archived'] as const
 export const ANSWER_MODES = ['choices', 'typed'] as const
+export type AnswerMode = typeof ANSWER_MODES[number]
 
 export type DeckCategory = typeof DECK_CATEGORIES[number]
 export type TypeCategory = typeof TYPE_CATEGORIES[number]

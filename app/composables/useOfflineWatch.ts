@@ -2,8 +2,8 @@
 // Records carry the person's id, so a shared phone never sends one person's calls as another's.
 import { openDB } from 'idb'
 import type { DBSchema, IDBPDatabase } from 'idb'
-import type { CallResult, IssuedSighting, IssuedWatch, WatchPack } from '#shared/types/drill'
-import type { CallInput } from '#shared/schemas/drill'
+import type { CallResult, IssuedSighting, IssuedWatch, WatchPack } from '#shared/types/watch'
+import type { CallInput } from '#shared/schemas/watch'
 
 // A result as the page shows it: graded on the phone until the server's answer replaces it.
 export interface ShownResult extends CallResult {

@@ -1,5 +1,5 @@
-import type { CallResult, IssuedWatch, WatchPack } from '#shared/types/drill'
-import type { CallInput } from '#shared/schemas/drill'
+import type { CallResult, IssuedWatch, WatchPack } from '#shared/types/watch'
+import type { CallInput } from '#shared/schemas/watch'
 
 // The watch routes (api.md): issue today's watch (or a practice), send a call, fetch the pack.
 export function useWatchApi() {

@@ -1,4 +1,4 @@
-import type { WatchToday } from '#shared/types/drill'
+import type { WatchToday } from '#shared/types/watch'
 import { workloadText } from '~/utils/workload'
 
 // Client-side only: when the counts were last asked for (they change after every watch).

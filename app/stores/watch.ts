@@ -4,8 +4,8 @@
 // here with the shared gradeAnswer, queued with their own time and sent in order when it returns.
 import { defineStore } from 'pinia'
 import { watch as observe } from 'vue'
-import type { CallResult, Introduction, IssuedSighting, IssuedWatch, PackSighting, WatchPack } from '#shared/types/drill'
-import type { CallInput } from '#shared/schemas/drill'
+import type { CallResult, Introduction, IssuedSighting, IssuedWatch, PackSighting, WatchPack } from '#shared/types/watch'
+import type { CallInput } from '#shared/schemas/watch'
 import { gradeAnswer, RESHOW_GAP } from '#shared/utils/call'
 import { isNetworkFailure, offlineWatch } from '~/composables/useOfflineWatch'
 import type { QueuedCall, ShownResult, StoredWatch } from '~/composables/useOfflineWatch'

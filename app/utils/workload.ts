@@ -1,6 +1,6 @@
 // One wording of what a deck holds today, used by the home page and the watch alike, so the two
 // always say the same thing (both read GET /api/watches/today).
-import type { DeckWorkload } from '#shared/types/drill'
+import type { DeckWorkload } from '#shared/types/watch'
 
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 

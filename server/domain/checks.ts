@@ -12,7 +12,7 @@ import type { CallGrade } from '../../shared/utils/grade'
 import type {
   AttemptStatus, AttemptSummary, CheckCallRecorded, CheckInput, CheckLists, CheckPatchInput, CheckResult, CheckToTake, CheckView, CrewChecks,
 } from '../../shared/schemas/checks'
-import type { IssuedWatch } from '../../shared/types/drill'
+import type { IssuedWatch } from '../../shared/types/watch'
 import type { Actor } from '../utils/gate'
 import { hasRole } from '../utils/gate'
 import { crewsLedOver } from './policy'

@@ -5,7 +5,7 @@ import type { Database } from 'better-sqlite3'
 import { isUntilCall, maskUrlFor, sightingImageUrl } from '../core/watch/plan'
 import type { PlannedChoice, PlannedSighting } from '../core/watch/plan'
 import type { CallGrade } from '../../shared/utils/grade'
-import type { IssuedSighting } from '../../shared/types/drill'
+import type { IssuedSighting } from '../../shared/types/watch'
 import { newCallId, newId } from '../utils/ids'
 import { statement } from '../utils/sql'
 

@@ -1,7 +1,7 @@
 // Tap baselines: a person's simple and choice reaction times, measured on their own device.
 import { desc, eq } from 'drizzle-orm'
-import type { BaselineInput } from '#shared/schemas/drill'
-import type { TapBaseline } from '#shared/types/drill'
+import type { BaselineInput } from '#shared/schemas/watch'
+import type { TapBaseline } from '#shared/types/watch'
 import { tables, useDb } from '../utils/db'
 import { newId } from '../utils/ids'
 

@@ -8,7 +8,7 @@ import { createError } from 'h3'
 import { newTrackState, reviewTrack, stageOf } from '../core/scheduling/fsrs'
 import type { TrackState } from '../core/scheduling/fsrs'
 import type { Rng } from '../core/watch/rng'
-import type { CallResult, DeckWorkload, Introduction, IssuedSighting, IssuedWatch, TeachingPicture, WatchPack, WatchToday } from '../../shared/types/drill'
+import type { CallResult, DeckWorkload, Introduction, IssuedSighting, IssuedWatch, TeachingPicture, WatchPack, WatchToday } from '../../shared/types/watch'
 import {
   canPractise, MAX_RESHOWS_PER_TRACK, planTrackSighting, planWatch, reshowOrder, teachingVariant, trackKeys, WATCH_MAX_SIGHTINGS,
 } from '../core/watch/plan'

@@ -8,7 +8,7 @@ import { mulberry32, seedFromString } from '../core/watch/rng'
 import type { Rng } from '../core/watch/rng'
 import { callSighting } from '../domain/calls'
 import { issueWatch } from '../domain/watches'
-import type { IssuedSighting } from '../../shared/types/drill'
+import type { IssuedSighting } from '../../shared/types/watch'
 import type { SeedContext } from './decks'
 
 export const HISTORY_DAYS = 35

@@ -11,7 +11,7 @@ import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { DESKTOP, PHONE, launch, signIn } from '../support/browser'
 import { signedIn } from '../support/client'
-import { directPerson, publishedDecks, readDb, TRAINEE_PASSWORD } from '../support/drill-fixture'
+import { directPerson, publishedDecks, readDb, TRAINEE_PASSWORD } from '../support/watch-fixture'
 
 type Theme = 'day' | 'night'
 type Who = 'anon' | 'trainee' | 'instructor' | 'lead' | 'admin'

@@ -4,7 +4,7 @@ import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
 import { Client, linkFromOutbox, signedIn } from '../support/client'
-import { TRAINEE_PASSWORD, directPerson, readDb } from '../support/drill-fixture'
+import { TRAINEE_PASSWORD, directPerson, readDb } from '../support/watch-fixture'
 
 let browser: Browser
 beforeAll(async () => {

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { DESKTOP, launch, newPage, shot, signIn } from '../support/browser'
 import { signedIn } from '../support/client'
-import { drillTrainee, ensureDrillFixture, readDb, TRAINEE_PASSWORD, writeDb } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb, TRAINEE_PASSWORD, writeDb } from '../support/watch-fixture'
 
 let browser: Browser
 
@@ -17,7 +17,7 @@ afterAll(async () => {
 
 describe('a check at 390x844, and its printed result', () => {
   it('is taken by tapping with no feedback, scores what the database holds, and prints plainly', async () => {
-    const fx = await ensureDrillFixture()
+    const fx = await ensureWatchFixture()
     const instructor = await signedIn('instructor@glint.demo')
     const def = await instructor.post('/api/checks', {
       deckId: fx.deckId, title: 'Harbour look-out check (test)', sightingCount: 5, exposureMs: 400,

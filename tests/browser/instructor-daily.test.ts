@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { DESKTOP, PHONE, launch, newPage, shot, signIn } from '../support/browser'
-import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb } from '../support/watch-fixture'
 
 let browser: Browser
 beforeAll(async () => {
@@ -18,7 +18,7 @@ const checkRow = (title: string) => readDb(db => db.prepare('SELECT id, due_at A
 
 describe('checks (issue 17, item 7)', () => {
   it('defines a check with a due date, changes it before anyone takes it, and retires it after, asking first', async () => {
-    const fx = await ensureDrillFixture()
+    const fx = await ensureWatchFixture()
     const { context, page } = await newPage(browser, DESKTOP)
     await signIn(page, 'instructor@glint.demo')
     await page.goto('/checks')

@@ -6,7 +6,7 @@ import type { Browser } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { DESKTOP, PHONE, launch, shot, signIn } from '../support/browser'
 import { signedIn } from '../support/client'
-import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb } from '../support/watch-fixture'
 
 let browser: Browser
 beforeAll(async () => {
@@ -103,7 +103,7 @@ describe('a lead on a phone', () => {
   })
 
   it('sees who has not taken a check, signs off with a remark, withdraws it with a reason (item 11)', async () => {
-    const fx = await ensureDrillFixture()
+    const fx = await ensureWatchFixture()
     const instructor = await signedIn('instructor@glint.demo')
     const title = `Phone sign-off ${Date.now().toString(36)}`
     const check = (await instructor.post('/api/checks', {

@@ -6,8 +6,8 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { Client, crewIdOf, freshPerson } from '../support/client'
 import { launch, passIntroductions, PHONE, signIn } from '../support/browser'
-import { readDb, writeDb } from '../support/drill-fixture'
-import type { WatchPack } from '../../shared/types/drill'
+import { readDb, writeDb } from '../support/watch-fixture'
+import type { WatchPack } from '../../shared/types/watch'
 
 let browser: Browser
 

@@ -4,8 +4,8 @@ import { randomBytes } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { DESKTOP, launch, newPage, passIntroductions, PHONE, shot } from '../support/browser'
-import { drillTrainee, ensureDrillFixture, FIXTURE_DECK_TITLE, publishedDecks, readDb, TRAINEE_PASSWORD, writeDb } from '../support/drill-fixture'
-import type { IssuedWatch, WatchPack } from '../../shared/types/drill'
+import { drillTrainee, ensureWatchFixture, FIXTURE_DECK_TITLE, publishedDecks, readDb, TRAINEE_PASSWORD, writeDb } from '../support/watch-fixture'
+import type { IssuedWatch, WatchPack } from '../../shared/types/watch'
 
 const DAY = 86_400_000
 let browser: Browser
@@ -37,7 +37,7 @@ function ageTracks(userId: string, deckId: string) {
 
 describe('the watch page at 390x844', () => {
   it('runs a whole watch by tapping, with exposures of the computed frame counts, and stores the calls', async () => {
-    const fx = await ensureDrillFixture()
+    const fx = await ensureWatchFixture()
     const decks = publishedDecks(fx.crewId)
     const deck = decks.find(d => d.title !== FIXTURE_DECK_TITLE && d.types.length >= 4) ?? decks.find(d => d.id === fx.deckId)!
     const trainee = await drillTrainee(fx.crewId)
@@ -180,7 +180,7 @@ const textOnScreen = (page: Page, testId: string) => page.getByTestId(testId).ev
 
 describe('the watch teaches at 390x844 (issue 15)', () => {
   it('introduces a new type before its first timed sighting; the reveal shows picture and name, and both pictures after a wrong call', async () => {
-    const fx = await ensureDrillFixture()
+    const fx = await ensureWatchFixture()
     const trainee = await drillTrainee(fx.crewId)
     const { context, page } = await openWatch(trainee, fx.deckId)
     await expect.poll(() => page.getByTestId('watch-counts').textContent()).toMatch(/0 to refresh · 10 to meet/)
@@ -279,7 +279,7 @@ describe('the watch teaches at 390x844 (issue 15)', () => {
   })
 
   it('offers a practice when nothing is due, with the next due time in words, and its calls are stored', async () => {
-    const fx = await ensureDrillFixture()
+    const fx = await ensureWatchFixture()
     const trainee = await drillTrainee(fx.crewId)
     // Tracks made by watches until none is new (other test files may add to the shared fixture deck),
     // then all called before and due in 8 days (not due today).

@@ -5,7 +5,7 @@ import { readFileSync } from 'node:fs'
 import { randomBytes } from 'node:crypto'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client, signedIn } from '../support/client'
-import { TRAINEE_PASSWORD, directPerson, ensureDrillDeck, readDb, writeDb } from '../support/drill-fixture'
+import { TRAINEE_PASSWORD, directPerson, ensureWatchDeck, readDb, writeDb } from '../support/watch-fixture'
 import { routeFiles, routeKey } from '../support/hostile-corpus'
 import { MATRIX } from './access-matrix'
 import type { Expect, Role } from './access-matrix'
@@ -50,7 +50,7 @@ async function buildSide(crewName: string, tag: string, tint: number): Promise<S
   const trainee = await directPerson(['trainee'], crew.id, false)
   const instructor = await directPerson(['instructor'], crew.id, false)
   // Encoding the renderings takes seconds: sign in after it, so no idle connection goes stale.
-  const deck = (await ensureDrillDeck({ title: `Access matrix deck ${tag}`, crewId: crew.id, ownerId: instructor.id, tint })).deckId
+  const deck = (await ensureWatchDeck({ title: `Access matrix deck ${tag}`, crewId: crew.id, ownerId: instructor.id, tint })).deckId
   await trainee.client.login(trainee.email, TRAINEE_PASSWORD)
   await instructor.client.login(instructor.email, TRAINEE_PASSWORD)
   const ins = instructor.client

@@ -2,7 +2,7 @@
 // and password. Results are read from the database file, outside the routes that wrote them.
 import { describe, expect, it } from 'vitest'
 import { Client, linkFromOutbox, signedIn } from '../support/client'
-import { TRAINEE_PASSWORD, directPerson, readDb } from '../support/drill-fixture'
+import { TRAINEE_PASSWORD, directPerson, readDb } from '../support/watch-fixture'
 
 const crewNamed = (name: string) => readDb(db => db.prepare('SELECT id FROM crews WHERE name = ?').pluck().get(name) as string)
 const crewsOfUser = (userId: string) => readDb(db => (db.prepare('SELECT crew_id FROM memberships WHERE user_id = ? ORDER BY crew_id').pluck().all(userId) as string[]))

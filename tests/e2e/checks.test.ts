@@ -4,12 +4,12 @@
 import { beforeAll, describe, expect, it } from 'vitest'
 import { signedIn } from '../support/client'
 import type { Client } from '../support/client'
-import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
-import type { DrillFixture } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb } from '../support/watch-fixture'
+import type { WatchFixture } from '../support/watch-fixture'
 import type { CheckLists, CheckResult, CheckView } from '../../shared/schemas/checks'
-import type { IssuedSighting } from '../../shared/types/drill'
+import type { IssuedSighting } from '../../shared/types/watch'
 
-let fx: DrillFixture
+let fx: WatchFixture
 let instructor: Client
 let lead: Client
 let lead2: Client
@@ -56,7 +56,7 @@ async function answer(c: Client, issued: Issued, right: Set<number>) {
 }
 
 beforeAll(async () => {
-  fx = await ensureDrillFixture()
+  fx = await ensureWatchFixture()
   instructor = await signedIn('instructor@glint.demo')
   lead = await signedIn('lead@glint.demo')
   lead2 = await signedIn('lead2@glint.demo')

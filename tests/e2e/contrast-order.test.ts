@@ -12,7 +12,7 @@
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { signedIn } from '../support/client'
 import type { Client } from '../support/client'
-import { readDb } from '../support/drill-fixture'
+import { readDb } from '../support/watch-fixture'
 import { decodeWebp, relativeLuminance } from '../support/pixels'
 import type { Pixels } from '../support/pixels'
 

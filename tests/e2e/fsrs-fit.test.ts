@@ -5,14 +5,14 @@ import { resolve } from 'node:path'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client, signedIn } from '../support/client'
 import { ownServer } from '../support/own-server'
-import { drillTrainee, ensureDrillFixture, readDb, writeDb } from '../support/drill-fixture'
-import type { DrillFixture } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb, writeDb } from '../support/watch-fixture'
+import type { WatchFixture } from '../support/watch-fixture'
 import type { CrewFitView } from '../../shared/types/fit'
-import type { CallResult, IssuedWatch } from '../../shared/types/drill'
+import type { CallResult, IssuedWatch } from '../../shared/types/watch'
 
-let fx: DrillFixture
+let fx: WatchFixture
 beforeAll(async () => {
-  fx = await ensureDrillFixture()
+  fx = await ensureWatchFixture()
 })
 
 const answerOf = (sightingId: string) => readDb(db => db.prepare('SELECT answer_choice_id AS a FROM sightings WHERE id = ?').get(sightingId) as { a: string }).a

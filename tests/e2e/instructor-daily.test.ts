@@ -6,7 +6,7 @@ import { join } from 'node:path'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { crewIdOf, signedIn } from '../support/client'
 import type { Client } from '../support/client'
-import { directPerson, ensureDrillDeck, readDb, writeDb } from '../support/drill-fixture'
+import { directPerson, ensureWatchDeck, readDb, writeDb } from '../support/watch-fixture'
 
 let crewId = ''
 let owner: { id: string, client: Client }
@@ -24,7 +24,7 @@ const onDisk = (file: string) => existsSync(join(inject('uploadsDir'), 'renders'
 beforeAll(async () => {
   crewId = await crewIdOf('lead@glint.demo')
   owner = await directPerson(['instructor'], crewId)
-  const fx = await ensureDrillDeck({ title: `Daily work deck ${Date.now().toString(36)}`, crewId, ownerId: owner.id, tint: 7 })
+  const fx = await ensureWatchDeck({ title: `Daily work deck ${Date.now().toString(36)}`, crewId, ownerId: owner.id, tint: 7 })
   deckId = fx.deckId
   types = fx.types
 })

@@ -4,11 +4,11 @@
 import { beforeAll, describe, expect, it } from 'vitest'
 import { signedIn } from '../support/client'
 import type { Client } from '../support/client'
-import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
-import type { DrillFixture } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb } from '../support/watch-fixture'
+import type { WatchFixture } from '../support/watch-fixture'
 import type { CheckLists, CheckResult, CheckView } from '../../shared/schemas/checks'
 
-let fx: DrillFixture
+let fx: WatchFixture
 let instructor: Client
 let lead: Client
 let lead2: Client
@@ -25,7 +25,7 @@ async function finishedAttempt(checkId: string) {
 }
 
 beforeAll(async () => {
-  fx = await ensureDrillFixture()
+  fx = await ensureWatchFixture()
   instructor = await signedIn('instructor@glint.demo')
   lead = await signedIn('lead@glint.demo')
   lead2 = await signedIn('lead2@glint.demo')

@@ -7,11 +7,11 @@ import { parse } from 'csv-parse/sync'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { signedIn } from '../support/client'
 import type { Client } from '../support/client'
-import { drillTrainee, ensureDrillFixture, readDb, writeDb } from '../support/drill-fixture'
-import type { DrillFixture } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb, writeDb } from '../support/watch-fixture'
+import type { WatchFixture } from '../support/watch-fixture'
 import type { CrewStats } from '../../shared/types/stats'
 
-let fx: DrillFixture
+let fx: WatchFixture
 let lead: Client
 let instructor: Client
 
@@ -24,7 +24,7 @@ const rowOf = async (userId: string) => {
 }
 
 beforeAll(async () => {
-  fx = await ensureDrillFixture()
+  fx = await ensureWatchFixture()
   lead = await signedIn('lead@glint.demo')
   instructor = await signedIn('instructor@glint.demo')
 })

@@ -3,8 +3,8 @@
 // the 36 h rule, voided sightings. Rules of the project's design (api.md), checked over HTTP.
 import { describe, expect, it } from 'vitest'
 import { crewIdOf, freshPerson } from '../support/client'
-import { readDb, writeDb } from '../support/drill-fixture'
-import type { CallResult, IssuedWatch, WatchPack } from '../../shared/types/drill'
+import { readDb, writeDb } from '../support/watch-fixture'
+import type { CallResult, IssuedWatch, WatchPack } from '../../shared/types/watch'
 
 async function openWatch() {
   const p = await freshPerson('trainee', await crewIdOf('trainee@glint.demo'))

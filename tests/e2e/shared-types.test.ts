@@ -6,7 +6,7 @@ import { readFileSync } from 'node:fs'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { crewIdOf } from '../support/client'
 import type { Client } from '../support/client'
-import { directPerson, readDb } from '../support/drill-fixture'
+import { directPerson, readDb } from '../support/watch-fixture'
 
 let owner: { id: string, client: Client }
 let crewId = ''

@@ -5,11 +5,11 @@
 // references: an object is served only to the user it belongs to).
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client, signedIn } from '../support/client'
-import { drillTrainee, ensureDrillFixture, readDb } from '../support/drill-fixture'
-import type { DrillFixture } from '../support/drill-fixture'
+import { drillTrainee, ensureWatchFixture, readDb } from '../support/watch-fixture'
+import type { WatchFixture } from '../support/watch-fixture'
 import { MATRIX } from './access-matrix'
 
-let fx: DrillFixture
+let fx: WatchFixture
 let trainee: Awaited<ReturnType<typeof drillTrainee>>
 let other: Awaited<ReturnType<typeof drillTrainee>>
 let watch: { id: string, sightings: { id: string, imageUrl: string }[] }
@@ -19,7 +19,7 @@ const read: { label: string, status: number, text: string }[] = []
 let renderings: string[] = []
 
 beforeAll(async () => {
-  fx = await ensureDrillFixture()
+  fx = await ensureWatchFixture()
   trainee = await drillTrainee(fx.crewId)
   other = await drillTrainee(fx.crewId)
   const instructor = await signedIn('instructor@glint.demo')

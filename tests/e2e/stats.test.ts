@@ -4,7 +4,7 @@ import { parse } from 'csv-parse/sync'
 import { quantile } from 'simple-statistics'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { signedIn } from '../support/client'
-import { readDb, writeDb } from '../support/drill-fixture'
+import { readDb, writeDb } from '../support/watch-fixture'
 import { DAY, createStatsFixture } from '../support/stats-fixture'
 import type { FixtureCall, StatsFixture } from '../support/stats-fixture'
 

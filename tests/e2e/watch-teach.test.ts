@@ -2,14 +2,14 @@
 // after every call with its pictures, and practice when nothing is due; over real HTTP.
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client } from '../support/client'
-import { drillTrainee, ensureDrillFixture, readDb, writeDb } from '../support/drill-fixture'
-import type { DrillFixture } from '../support/drill-fixture'
-import type { CallResult, IssuedSighting, IssuedWatch, WatchPack, WatchToday } from '../../shared/types/drill'
+import { drillTrainee, ensureWatchFixture, readDb, writeDb } from '../support/watch-fixture'
+import type { WatchFixture } from '../support/watch-fixture'
+import type { CallResult, IssuedSighting, IssuedWatch, WatchPack, WatchToday } from '../../shared/types/watch'
 
-let fx: DrillFixture
+let fx: WatchFixture
 const DAY = 86_400_000
 
-// The fixture's key features (tests/support/drill-fixture.ts), written out here as the instructor entered them.
+// The fixture's key features (tests/support/watch-fixture.ts), written out here as the instructor entered them.
 const FEATURES: Record<string, Record<string, string>> = {
   Brantwing: { wings: 'straight, mid-set', engines: 'two, under the wings', tail: 'twin fins' },
   Corvel: { wings: 'swept, low-set', engines: 'one, in the tail', tail: 'T-tail' },
@@ -34,7 +34,7 @@ async function newWatch() {
 }
 
 beforeAll(async () => {
-  fx = await ensureDrillFixture()
+  fx = await ensureWatchFixture()
 })
 
 describe('introductions (product.md: each new track introduced before its first timed sighting)', () => {

@@ -2,11 +2,11 @@
 // resends, other trainees, bad input, re-shows, the pack and the tap baseline.
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client } from '../support/client'
-import { drillTrainee, ensureDrillFixture, publishedDecks, readDb, writeDb } from '../support/drill-fixture'
-import type { DrillFixture } from '../support/drill-fixture'
-import type { CallResult, IssuedSighting, IssuedWatch, WatchPack } from '../../shared/types/drill'
+import { drillTrainee, ensureWatchFixture, publishedDecks, readDb, writeDb } from '../support/watch-fixture'
+import type { WatchFixture } from '../support/watch-fixture'
+import type { CallResult, IssuedSighting, IssuedWatch, WatchPack } from '../../shared/types/watch'
 
-let fx: DrillFixture
+let fx: WatchFixture
 
 interface SightingRow { id: string, target_type_id: string, answer_choice_id: string, position: number, track_id: string, reshow_of: string | null, issued_at: number }
 
@@ -28,7 +28,7 @@ const goodCall = (choiceId: string | null, latencyMs: number | null) => ({ choic
 const wrongChoice = (s: IssuedSighting) => s.choices.find(c => c.id !== answerOf(s.id))!.id
 
 beforeAll(async () => {
-  fx = await ensureDrillFixture()
+  fx = await ensureWatchFixture()
 })
 
 describe('POST /api/watches', () => {

@@ -1,4 +1,4 @@
-import { BaselineBody } from '#shared/schemas/drill'
+import { BaselineBody } from '#shared/schemas/watch'
 import { saveTapBaseline } from '../../domain/tap-baselines'
 
 // Stores a tap baseline: the person's own simple and choice reaction times on this device.

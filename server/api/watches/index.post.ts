@@ -1,4 +1,4 @@
-import { WatchBody } from '#shared/schemas/drill'
+import { WatchBody } from '#shared/schemas/watch'
 import { startWatch } from '../../domain/watches'
 
 // Today's watch: the open one again, or a new one issued at once; with practice, a short practice

@@ -1,4 +1,4 @@
-import { CallBody } from '#shared/schemas/drill'
+import { CallBody } from '#shared/schemas/watch'
 import { IdParam } from '#shared/schemas/params'
 import { takeCall } from '../../../domain/calls'
 

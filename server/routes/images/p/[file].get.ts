@@ -1,6 +1,6 @@
 import { readFile } from 'node:fs/promises'
 import { join } from 'node:path'
-import { PictureFileParam } from '#shared/schemas/drill'
+import { PictureFileParam } from '#shared/schemas/watch'
 import { pictureFileFor } from '../../../domain/watches'
 
 // A watch's teaching picture (introduction, reveal) by its opaque id, only for the trainee the

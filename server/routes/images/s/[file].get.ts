@@ -1,4 +1,4 @@
-import { SightingImageParam } from '#shared/schemas/drill'
+import { SightingImageParam } from '#shared/schemas/watch'
 import { sightingImageFile } from '../../../domain/watches'
 
 // A sighting's picture (watch or check) at its own address, for the trainee it was issued to; anyone

@@ -28,7 +28,7 @@ const SCENE: Record<string, [number, number]> = {
   'backlit': [230, 25], 'sunlit': [110, 215], 'dark-cloud': [60, 35], 'white-cloud': [235, 40], 'haze': [190, 120], 'goggles': [20, 8],
 }
 
-export interface DrillFixture {
+export interface WatchFixture {
   deckId: string
   crewId: string
   types: { id: string, name: string }[]
@@ -69,15 +69,15 @@ function silhouette(width: number, height: number, t: typeof TYPES[number], aspe
 }
 
 /** Inserts the fixture deck once (found again by its title), assigned to the first demo crew. */
-export async function ensureDrillFixture(): Promise<DrillFixture> {
+export async function ensureWatchFixture(): Promise<WatchFixture> {
   const crewId = readDb(db => (db.prepare('SELECT id FROM crews WHERE name = ?').get('Skerrow Point Station') as { id: string }).id)
   const ownerId = readDb(db => (db.prepare('SELECT id FROM users WHERE email = ?').get('instructor@glint.demo') as { id: string }).id)
-  return ensureDrillDeck({ title: FIXTURE_DECK_TITLE, crewId, ownerId })
+  return ensureWatchDeck({ title: FIXTURE_DECK_TITLE, crewId, ownerId })
 }
 
 /** A published drill deck (the fixture's types, views and renderings) with its own title, owner and crew; made once per title. */
 // tint (a red shift of every pixel) keeps each deck's files apart: a rendering's file name is its content hash.
-export async function ensureDrillDeck(o: { title: string, crewId: string, ownerId: string, tint?: number }): Promise<DrillFixture> {
+export async function ensureWatchDeck(o: { title: string, crewId: string, ownerId: string, tint?: number }): Promise<WatchFixture> {
   const db = new Database(inject('dbPath'))
   db.pragma('busy_timeout = 5000')
   try {

@@ -191,28 +191,13 @@ export interface CallFields {
   offline: boolean
 }
 
-interface CallParams {
+// The call's row as bound: CallFields with SQLite's 0/1 for booleans, plus what the server adds.
+type CallParams = Omit<CallFields, 'correct' | 'anticipation' | 'offline'> & {
   id: string
-  sightingId: string
-  userId: string
-  deckId: string
-  trackId: string | null
-  kind: string
-  targetTypeId: string
-  calledTypeId: string | null
-  aspect: string
-  condition: string
-  choiceId: string | null
-  typed: string | null
   correct: number
-  grade: string
   anticipation: number
-  latencyMs: number | null
-  framesShown: number
-  frameIntervalMs: number
-  calledAt: number
-  receivedAt: number
   offline: number
+  receivedAt: number
   before: string | null
   after: string | null
   result: string

@@ -5,9 +5,9 @@ import type { H3Event } from 'h3'
 import { createError, setResponseHeaders } from 'h3'
 import { rendersDir } from './renders-store'
 
-export async function sendRendering(event: H3Event, file: string, uploadsDir: string): Promise<Buffer> {
-  const bytes = await readFile(join(rendersDir(uploadsDir), file)).catch(() => null)
-  if (!bytes) throw createError({ statusCode: 404, message: 'No such image.' })
+export async function sendRendering(event: H3Event, file: string | null, uploadsDir: string, notFound = 'No such image.'): Promise<Buffer> {
+  const bytes = file ? await readFile(join(rendersDir(uploadsDir), file)).catch(() => null) : null
+  if (!bytes) throw createError({ statusCode: 404, message: notFound })
   setResponseHeaders(event, {
     'Content-Type': 'image/webp',
     'X-Content-Type-Options': 'nosniff',

@@ -8,17 +8,11 @@ import { join, resolve } from 'node:path'
 import { and, eq } from 'drizzle-orm'
 import type { GlintDb } from '../database/client'
 import * as t from '../database/schema'
+import type { RenderedFile } from '../workers/render-worker'
 import { newId } from './ids'
 
-export interface StoredRendering {
-  condition: string
-  width: number
-  height: number
-  bytes: number
-  contrast: number
-  sha256: string
-  webp: Uint8Array
-}
+/** A rendering as the render worker returns it, without the size rung it was drawn at. */
+export type StoredRendering = Omit<RenderedFile, 'size'>
 
 export interface ViewToStore {
   targetTypeId: string

@@ -4,7 +4,7 @@
 import { buildPracticeQueue, buildWatchQueue, insertReshow, placeIntroductions, PRACTICE_SIZE } from './queue'
 import type { QueueTrack } from './queue'
 import { planSighting } from './sighting-plan'
-import type { SightingOverrides } from './sighting-plan'
+import type { SightingOverrides, SightingPlan } from './sighting-plan'
 import { makeChoiceIds, pickChoices, sharedFeatureCount } from './choices'
 import { seedFromString } from './rng'
 import type { Rng } from './rng'
@@ -70,7 +70,8 @@ export interface DeckContent {
 
 export interface PlannedChoice { id: string, label: string, typeId: string }
 
-export interface PlannedSighting {
+/** A sighting as planned: the sighting plan's condition, range, size and exposure, on one rendering. */
+export interface PlannedSighting extends Omit<SightingPlan, 'viewId' | 'condition'> {
   // null for a check's sighting, which belongs to no track
   trackId: string | null
   targetTypeId: string
@@ -80,12 +81,6 @@ export interface PlannedSighting {
   width: number
   height: number
   condition: string
-  rangeM: number
-  binoculars: boolean
-  apparentPx: number
-  exposureMs: number
-  untilCall: boolean
-  windowMs: number
   choices: PlannedChoice[]
   answerChoiceId: string
 }

@@ -1,5 +1,3 @@
-import { readFile } from 'node:fs/promises'
-import { join } from 'node:path'
 import { PictureFileParam } from '#shared/schemas/watch'
 import { pictureFileFor } from '../../../domain/watches'
 
@@ -9,13 +7,5 @@ export default defineEventHandler(async (event) => {
   const { file } = validator(PictureFileParam)({ file: getRouterParam(event, 'file') ?? '' })
   const actor = await requireActor(event)
   const name = pictureFileFor(actor.id, file.slice(0, -'.webp'.length))
-  const bytes = name ? await readFile(join(rendersDir(useRuntimeConfig().uploadsDir), name)).catch(() => null) : null
-  if (!bytes) throw createError({ statusCode: 404, message: 'No such picture in your watches.' })
-  setResponseHeaders(event, {
-    'Content-Type': 'image/webp',
-    'X-Content-Type-Options': 'nosniff',
-    'Cache-Control': 'private, max-age=31536000, immutable',
-    'Content-Length': String(bytes.byteLength),
-  })
-  return bytes
+  return sendRendering(event, name, useRuntimeConfig().uploadsDir, 'No such picture in your watches.')
 })

@@ -97,22 +97,6 @@ export const useWatchStore = defineStore('watch', () => {
     Object.defineProperty(window, '__glintFrames', { get: () => Object.freeze(frames.map(f => ({ ...f }))), configurable: false })
   }
 
-  // The corner colour of an image, so the box around a scaled-down scene continues its sky.
-  function backgroundOf(el: HTMLImageElement) {
-    try {
-      const c = document.createElement('canvas')
-      c.width = 1
-      c.height = 1
-      const ctx = c.getContext('2d')!
-      ctx.drawImage(el, 0, 0, 1, 1, 0, 0, 1, 1)
-      const [r, g, b] = ctx.getImageData(0, 0, 1, 1).data
-      return `rgb(${r} ${g} ${b})`
-    }
-    catch {
-      return '#8aa0b0'
-    }
-  }
-
   // Each image is usable as soon as it is decoded, so a sighting waits for its own pictures only.
   async function preload(urls: string[]) {
     loaded.value = 0
@@ -125,7 +109,7 @@ export const useWatchStore = defineStore('watch', () => {
       el.decoding = 'async'
       el.src = url
       await el.decode()
-      images.value = new Map(images.value).set(url, { el, background: url.startsWith('/masks/') ? '#000' : backgroundOf(el) })
+      images.value = new Map(images.value).set(url, { el, background: url.startsWith('/masks/') ? '#000' : cornerColour(el) })
       loaded.value++
     }))
   }

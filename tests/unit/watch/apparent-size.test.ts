@@ -50,7 +50,11 @@ describe('CSS pixels via the reference pixel (W3C CSS Values and Units Level 3)'
   })
 })
 
-describe('distance to the horizon (Bowditch, d ≈ 1.17·√h; from memory)', () => {
+// Bowditch, The American Practical Navigator (1995 and 2002 editions, chapter 22): D = 1.17·√h nautical
+// miles, h the height of eye in feet, refraction included; quoted from both editions in NavList,
+// "Bowditch: Distance to visible horizon" (R. Stuart, 2012), which also notes that the book's metric
+// form, 2.07·√h(m), is not the same constant converted (1.17·√3.2808 = 2.119): the feet form is used.
+describe('distance to the horizon (Bowditch, chapter 22: D = 1.17·√h nm, h in feet)', () => {
   it('100 ft of eye height sees about 11.7 nm', () => {
     expect(horizonDistanceNm(100)).toBeCloseTo(11.7, 6)
     expect(horizonDistanceNm(0)).toBe(0)
@@ -58,5 +62,7 @@ describe('distance to the horizon (Bowditch, d ≈ 1.17·√h; from memory)', ()
 
   it('the metric form converts with 1 ft = 0.3048 m and 1 nm = 1852 m (international definitions)', () => {
     expect(horizonDistanceM(30.48)).toBeCloseTo(11.7 * 1852, 6)
+    // the feet form converted, not the book's 2.07·√h(m): 10 m of eye height sees 1.17·√32.808 = 6.70 nm
+    expect(horizonDistanceM(10) / 1852).toBeCloseTo(6.70, 2)
   })
 })

@@ -53,7 +53,10 @@ describe('planSighting', () => {
     }
   })
 
-  it('a vessel stays inside the horizon of a 15 m bridge wing (Bowditch 1.17·√h nm, from memory)', () => {
+  // Bowditch, The American Practical Navigator (1995 and 2002 editions, chapter 22, distance to the
+  // visible horizon): D = 1.17·√h nautical miles with the height of eye h in feet, as printed there
+  // (quoted from both editions in NavList, "Bowditch: Distance to visible horizon", R. Stuart, 2012).
+  it('a vessel stays inside the horizon of a 15 m bridge wing (Bowditch: D = 1.17·√h nm, h in feet)', () => {
     const horizonM = 1.17 * Math.sqrt(15 / 0.3048) * 1852
     for (const p of plans({ reps: 9, stability: 60 }, { sizeM: 250, category: 'vessel' }, 50)) {
       expect(p.rangeM).toBeLessThanOrEqual(horizonM + 1e-6)

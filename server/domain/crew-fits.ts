@@ -137,7 +137,7 @@ async function runCrewFit(sqlite: Database, crewId: string): Promise<void> {
 
 /** Fits every crew in turn (the weekly task). */
 export async function fitAllCrews(sqlite: Database): Promise<{ crews: number }> {
-  const crews = statement<string, []>(sqlite, 'SELECT id FROM crews ORDER BY id').pluck().all()
+  const crews = statement<string, []>(sqlite, 'SELECT id FROM crews ORDER BY id', 'pluck').all()
   for (const crewId of crews) await startCrewFit(sqlite, crewId, null)
   return { crews: crews.length }
 }
@@ -179,7 +179,7 @@ function peopleOf(sqlite: Database, logs: readonly (ReviewLog & { userId: string
     if (list) list.push(log)
     else byUser.set(log.userId, [log])
   }
-  const nameOf = statement<string, [string]>(sqlite, 'SELECT name FROM users WHERE id = ?').pluck()
+  const nameOf = statement<string, [string]>(sqlite, 'SELECT name FROM users WHERE id = ?', 'pluck')
   return [...byUser].map(([userId, own]) => {
     const tracks = byTrack(own)
     // a prediction is made for every call after a track's first

@@ -42,11 +42,11 @@ export function digestDay(nowMs: number): string {
 function claimer(sqlite: Database, kind: DigestKind, actorId: string | null) {
   const action = `digest.${kind}`
   const seen = statement<number, [string, string, string, string]>(sqlite, `SELECT 1 FROM audit_log WHERE action = ? AND subject_id = ? AND json_extract(detail, '$.period') = ?
-    AND json_extract(detail, '$.to') = ? LIMIT 1`)
+    AND json_extract(detail, '$.to') = ? LIMIT 1`, 'pluck')
   const insert = statement<unknown, [string, string | null, string, string, string, string, number]>(sqlite, 'INSERT INTO audit_log (id, actor_id, action, subject_type, subject_id, detail, created_at) VALUES (?, ?, ?, ?, ?, ?, ?)')
   // Check and record in one immediate transaction, so two runs at once cannot both send.
   return sqlite.transaction((subjectType: string, subjectId: string, period: string, to: string): boolean => {
-    if (seen.pluck().get(action, subjectId, period, to)) return false
+    if (seen.get(action, subjectId, period, to)) return false
     insert.run(newId(), actorId, action, subjectType, subjectId, JSON.stringify({ period, to }), Date.now())
     return true
   })
@@ -64,7 +64,7 @@ function digestReader(sqlite: Database) {
     WHERE m.crew_id = ? AND u.disabled = 0 AND EXISTS (SELECT 1 FROM user_roles r WHERE r.user_id = u.id AND r.role = 'trainee') ORDER BY u.name`)
   const keysOf = statement<{ targetTypeId: string, aspect: string }, [string]>(sqlite, `SELECT DISTINCT v.target_type_id AS targetTypeId, v.aspect FROM views v JOIN target_types t ON t.id = v.target_type_id WHERE t.deck_id = ?`)
   const lastCall = statement<number, [string, number, string]>(sqlite, `SELECT called_at FROM calls WHERE user_id = ? AND kind = 'watch' AND called_at < ?
-    AND deck_id IN (SELECT value FROM json_each(?)) ORDER BY called_at DESC LIMIT 1`)
+    AND deck_id IN (SELECT value FROM json_each(?)) ORDER BY called_at DESC LIMIT 1`, 'pluck')
   // One crew's digest of the week [weekStart, weekEnd), counting calls made before `asOf`.
   return (crew: CrewRow, weekStart: number, weekEnd: number, base: string, asOf = weekEnd) => {
     const decks = decksOf.all(crew.id)
@@ -81,7 +81,7 @@ function digestReader(sqlite: Database) {
         readyWeekAgo: readinessOnDecks(weekAgo, decks, keys, standard, weekStart).ready,
         accuracyNow: windowStats(calls, until, crew.windowDays).accuracy,
         accuracyWeekAgo: windowStats(weekAgo, weekStart, crew.windowDays).accuracy,
-        lastCallAt: deckIds.length ? lastCall.pluck().get(t.id, until, JSON.stringify(deckIds)) ?? null : null,
+        lastCallAt: deckIds.length ? lastCall.get(t.id, until, JSON.stringify(deckIds)) ?? null : null,
       }
     })
     return weeklyLeadDigest({ crewName: crew.name, people, weekStart, weekEnd, crewUrl: `${base}/crews/${crew.id}` })
@@ -137,7 +137,7 @@ export function previewWeeklyDigest(leadId: string, crewIds: string[], nowMs: nu
   // The run on the coming Monday covers the week now is in.
   const { weekStart, weekEnd } = digestWeek(nowMs + 7 * DAY_MS)
   const sendsAt = weekEnd + 6 * 60 * 60 * 1000
-  const optedOut = statement<number, [string]>(sqlite, 'SELECT digest_opt_out FROM users WHERE id = ?').pluck().get(leadId) === 1
+  const optedOut = statement<number, [string]>(sqlite, 'SELECT digest_opt_out FROM users WHERE id = ?', 'pluck').get(leadId) === 1
   const crews = statement<CrewRow, [string]>(sqlite, `${CREWS_SQL} WHERE id IN (SELECT value FROM json_each(?)) ORDER BY name`).all(JSON.stringify(crewIds))
   const digestOf = digestReader(sqlite)
   return {
@@ -163,11 +163,11 @@ export async function runDailyReminders(nowMs: number, opts: DigestOptions = {})
     .all()
   // Tracks due on the decks assigned to the trainee's crews.
   const due = statement<number, [string, number, string]>(sqlite, `SELECT COUNT(*) FROM tracks t WHERE t.user_id = ? AND t.due <= ? AND t.deck_id IN (
-    SELECT dc.deck_id FROM deck_crews dc JOIN memberships m ON m.crew_id = dc.crew_id WHERE m.user_id = ?)`)
+    SELECT dc.deck_id FROM deck_crews dc JOIN memberships m ON m.crew_id = dc.crew_id WHERE m.user_id = ?)`, 'pluck')
 
   const result: DigestRunResult = { kind: 'daily', period, sent: 0, alreadySent: 0, skipped: 0 }
   for (const t of trainees) {
-    const tracksDue = t.optOut ? 0 : due.pluck().get(t.id, nowMs, t.id)!
+    const tracksDue = t.optOut ? 0 : due.get(t.id, nowMs, t.id)!
     if (!tracksDue) {
       result.skipped++
       continue

@@ -39,7 +39,7 @@ const WATCH_CALLS = 'kind = \'watch\''
 
 // The reports' statements, prepared once per handle through statement() (server/utils/sql.ts): the
 // crew table and the person page read tens of thousands of calls a request, so rows come back as
-// arrays (.raw()) or single values (.pluck()), set on every use, and only the columns the reports use.
+// arrays ('raw') or single values ('pluck'), a shape fixed per statement (server/utils/sql.ts), and only the columns the reports use.
 const SQL = {
   crew: `SELECT id, name, min_accuracy AS minAccuracy, min_calls_per_track AS minCallsPerTrack, window_days AS windowDays,
     offline_counts AS offlineCounts FROM crews WHERE id = ?`,
@@ -102,18 +102,18 @@ function toRecord(r: RawCall): LoadedCall {
 /** A person's calls on the given decks with fromMs <= calledAt <= toMs, oldest first. */
 export function loadPersonCalls(sqlite: Database, userId: string, deckIds: readonly string[], fromMs: number, toMs: number): LoadedCall[] {
   if (!deckIds.length) return []
-  const rows = statement<RawCall, [string, number, number, IdList]>(sqlite, SQL.userCalls).raw().all(userId, fromMs, toMs, JSON.stringify(deckIds))
+  const rows = statement<RawCall, [string, number, number, IdList]>(sqlite, SQL.userCalls, 'raw').all(userId, fromMs, toMs, JSON.stringify(deckIds))
   const out = rows.map(toRecord)
   out.sort((a, b) => a.calledAt - b.calledAt)
   return out
 }
 
 function trackKeysOf(sqlite: Database, deckId: string): TrackKey[] {
-  return statement<[string, string], [string]>(sqlite, SQL.trackKeys).raw().all(deckId).map(([targetTypeId, aspect]) => ({ targetTypeId, aspect }))
+  return statement<[string, string], [string]>(sqlite, SQL.trackKeys, 'raw').all(deckId).map(([targetTypeId, aspect]) => ({ targetTypeId, aspect }))
 }
 
 function tracksDueOf(sqlite: Database, userId: string, nowMs: number, deckJson: IdList): number {
-  return statement<number, [string, number, IdList]>(sqlite, SQL.tracksDue).pluck().get(userId, nowMs, deckJson)!
+  return statement<number, [string, number, IdList]>(sqlite, SQL.tracksDue, 'pluck').get(userId, nowMs, deckJson)!
 }
 
 function standardOf(crew: CrewRow): ReadinessStandard {
@@ -251,7 +251,7 @@ export function personTallies(
   const args: (string | number | null)[] = decks.length > 1 ? [...deckIds, ...onDeckType] : onDeckType
   if (filtered) args.push(filter.aspect, filter.aspect, filter.condition, filter.condition)
   args.push(...scope.cutTimes, userId, deckJson, scope.oldestMs, scope.nowMs + 1)
-  const values = statement<number>(sqlite, packedSqlOf({ cuts: scope.cutTimes.length, decks: decks.length, filtered })).pluck().all(...args)
+  const values = statement<number>(sqlite, packedSqlOf({ cuts: scope.cutTimes.length, decks: decks.length, filtered }), 'pluck').all(...args)
   const nDecks = decks.length
   for (const v of values) {
     // Below 2^31 (any latency up to MAX_LATENCY_MS on up to 550 decks) bit operations are exact
@@ -279,7 +279,7 @@ export function personTallies(
   }
   const readinessTallies = decks.map((deck, i): ReadinessTally => {
     const keys = keysByDeck.get(deck.id) ?? []
-    const n = statement<number, [string, string, number, number, number, string]>(sqlite, PAIR_COUNTS_SQL).pluck()
+    const n = statement<number, [string, string, number, number, number, string]>(sqlite, PAIR_COUNTS_SQL, 'pluck')
       .all(userId, deck.id, scope.windowFromMs, scope.nowMs, offlineCounts, pairListOf(keys))
     const counts = new Map(keys.map((k, j) => [trackKeyOf(k.targetTypeId, k.aspect), n[j]!]))
     const { calls, right, latencies } = tallies[i]!
@@ -360,7 +360,7 @@ export function crewStatsOf(sqlite: Database, crewId: string, filters: StatsFilt
     const main = window(filters.days)
     const ready = combineDeckReadiness(decks, (deck, i) =>
       readinessOfTally(tallies[i]!, keysByDeck.get(deck.id) ?? [], standard, deck.hesitationMs))
-    const last = deckIds.length ? statement<number, [string, number, IdList]>(sqlite, SQL.lastCall).pluck().get(person.id, nowMs, deckJson) : undefined
+    const last = deckIds.length ? statement<number, [string, number, IdList]>(sqlite, SQL.lastCall, 'pluck').get(person.id, nowMs, deckJson) : undefined
     return {
       userId: person.id,
       name: person.name,
@@ -422,7 +422,7 @@ function namesOf(sqlite: Database, deckIds: readonly string[]): Map<string, stri
 function nameOf(sqlite: Database, names: Map<string, string>, id: string): string {
   let n = names.get(id)
   if (n === undefined) {
-    n = statement<string, [string]>(sqlite, SQL.typeName).pluck().get(id) ?? 'an unknown target type'
+    n = statement<string, [string]>(sqlite, SQL.typeName, 'pluck').get(id) ?? 'an unknown target type'
     names.set(id, n)
   }
   return n
@@ -442,7 +442,7 @@ export function crewConfusionsOf(sqlite: Database, crewId: string, deckId: strin
   const deck = decks[0]
   if (!deck) return { deck: null, days, types: [], counts: [], noCall: [], totals: [] }
   const names = namesOf(sqlite, [deck.id])
-  const rows = statement<[string, string | null], [string, number, number, string]>(sqlite, SQL.crewDeckCalls).raw()
+  const rows = statement<[string, string | null], [string, number, number, string]>(sqlite, SQL.crewDeckCalls, 'raw')
     .all(deck.id, nowMs - days * DAY_MS, nowMs, crewId)
   const m = confusionMatrix(rows.map(([targetTypeId, calledTypeId]) => ({ targetTypeId, calledTypeId })), { types: [...names.keys()] })
   return {
@@ -460,7 +460,7 @@ export function deckConfusionsOf(sqlite: Database, deckId: string, days: number,
   const deck = statement<DeckRow, [string]>(sqlite, SQL.deck).get(deckId)
   if (!deck) throw createError({ statusCode: 404, message: 'No such deck.' })
   const names = namesOf(sqlite, [deckId])
-  const rows = statement<[string, string | null, string, string], [string, number, number, string]>(sqlite, SQL.deckCalls).raw()
+  const rows = statement<[string, string | null, string, string], [string, number, number, string]>(sqlite, SQL.deckCalls, 'raw')
     .all(deckId, nowMs - days * DAY_MS, nowMs, deckId)
   const calls = rows.map(([targetTypeId, calledTypeId, aspect, condition]) => ({ targetTypeId, calledTypeId, aspect, condition }))
   return {
@@ -480,7 +480,7 @@ export function deckConfusionsOf(sqlite: Database, deckId: string, days: number,
 const SIDE_BY_SIDE = 3
 function sideBySide(sqlite: Database, pairs: NamedPair[]): SideBySidePair[] {
   const typeOf = statement<{ id: string, name: string, features: string }, [string]>(sqlite, SQL.typeOf)
-  const picture = statement<string, [string, string]>(sqlite, SQL.sunlitPicture).pluck()
+  const picture = statement<string, [string, string]>(sqlite, SQL.sunlitPicture, 'pluck')
   const side = (id: string, aspect: string): PairSide => {
     const t = typeOf.get(id)!
     const file = picture.get(id, aspect)

@@ -85,7 +85,7 @@ export interface AuditEntry {
   names: Record<string, string>
 }
 
-const NAMED_KEYS = ['userId', 'crewId', 'crewIds', 'checkId', 'deckId', 'targetTypeId']
+const NAMED_KEYS = ['userId', 'crewId', 'crewIds', 'checkId', 'deckId', 'deckIds', 'targetTypeId', 'definitionId', 'from']
 
 function idsIn(detail: Record<string, unknown> | null): string[] {
   if (!detail) return []

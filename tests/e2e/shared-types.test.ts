@@ -4,7 +4,7 @@
 // built server and is read back from its database.
 import { readFileSync } from 'node:fs'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { crewIdOf } from '../support/client'
+import { crewIdOf, signedIn } from '../support/client'
 import type { Client } from '../support/client'
 import { directPerson, readDb } from '../support/watch-fixture'
 
@@ -121,6 +121,13 @@ describe('a target type shared between decks (issue 17, item 5)', () => {
     expect(audits).toHaveLength(1)
     expect(JSON.parse(audits[0]!.detail).deckIds.sort()).toEqual([deckA, deckB].sort())
     expect(auditRows('target-type.update', typeA)).toEqual([])
+    // The admin's audit log names the decks by their titles (issue 17, item 1: readable fields, names for ids).
+    const admin = await signedIn('admin@glint.demo')
+    const log = await admin.get('/api/admin/audit?action=target-type.update&size=100')
+    expect(log.status).toBe(200)
+    const entry = log.body.find((e: { subjectId: string }) => e.subjectId === typeB)
+    const titles = readDb(db => db.prepare('SELECT id, title FROM decks WHERE id IN (?, ?)').all(deckA, deckB) as { id: string, title: string }[])
+    expect(entry.names).toMatchObject(Object.fromEntries(titles.map(t => [t.id, t.title])))
   })
 
   it('adds a view uploaded in one deck to every linked row once rendered, sharing its files', async () => {

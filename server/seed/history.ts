@@ -4,7 +4,7 @@
 // Idempotent: a trainee who already has calls is left alone. Needs the demo decks (seedDecks).
 import { randomBytes } from 'node:crypto'
 import type { GlintDb } from '../database/client'
-import { mulberry32, seedFromString } from '../core/watch/rng'
+import { seededRng, seedFromString } from '../core/watch/rng'
 import type { Rng } from '../core/watch/rng'
 import { callSighting } from '../domain/calls'
 import { issueWatch } from '../domain/watches'
@@ -63,7 +63,7 @@ export async function seedHistory(db: GlintDb, _ctx: SeedContext) {
     if (!profile || hasCalls.get(person.id)) continue
     const decks = (decksOf.all(person.id) as { id: string }[]).map(d => d.id)
     if (!decks.length) continue
-    const rng = mulberry32(seedFromString(person.email))
+    const rng = seededRng(seedFromString(person.email))
     const random = { rng, randomBytes: (n: number) => randomBytes(n) }
     sqlite.transaction(() => {
       for (let daysAgo = HISTORY_DAYS; daysAgo >= 1; daysAgo--) {

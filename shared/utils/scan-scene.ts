@@ -8,7 +8,7 @@
 // because no phone can show a 7x view of a 7° field at the reference pixel's scale.
 
 import type { Condition } from './conditions'
-import { mulberry32 } from './rng'
+import { seededRng } from './rng'
 import { median } from './statistics'
 import { rangeForPx, BINOCULAR_MAGNIFICATION } from './apparent-size'
 import {
@@ -109,7 +109,7 @@ export function contactVisibleMs(config: ScanDrillConfig): number {
  * inside the drill; sorted by the time they show, ids c1, c2, ...
  */
 export function placeScanContacts(config: ScanDrillConfig, seed: number): ScanContact[] {
-  const rng = mulberry32(seed)
+  const rng = seededRng(seed)
   const lengthMs = config.lengthS * 1000
   const count = Math.max(1, Math.round(config.contactsPerMinute * config.lengthS / 60))
   const visibleMs = contactVisibleMs(config)
@@ -146,7 +146,7 @@ export function scanContactPx(contact: Pick<ScanContact, 'sizeM' | 'rangeM'>, fi
 
 /** The sun's place in the scene, by seed: a bearing inside or near the sector, 15–35° up. */
 export function scanSun(config: Pick<ScanDrillConfig, 'startBearing' | 'endBearing'>, seed: number): { bearing: number, positionAngle: number } {
-  const rng = mulberry32(seed ^ 0x5EED5)
+  const rng = seededRng(seed ^ 0x5EED5)
   const width = sectorWidth(config.startBearing, config.endBearing)
   return { bearing: normalizeBearing(config.startBearing + rng() * width), positionAngle: 15 + rng() * 20 }
 }

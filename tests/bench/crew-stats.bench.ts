@@ -7,7 +7,7 @@ import { join } from 'node:path'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { applyMigrations, openDatabase } from '../../server/database/client'
 import { quantile } from '../../shared/utils/statistics'
-import { mulberry32 as rng } from '../../shared/utils/rng'
+import { seededRng as rng } from '../../shared/utils/rng'
 import { freePort, testEnv, waitForHealth } from '../support/global-setup'
 import { ensureBuild } from './build'
 

@@ -6,7 +6,7 @@
 import { spawn } from 'node:child_process'
 import { resolve } from 'node:path'
 import { DEFAULT_STANDARD } from '../../server/core/reports/readiness'
-import { mulberry32 } from '../../server/core/watch/rng'
+import { seededRng } from '../../server/core/watch/rng'
 import { PAPER_PARAMS } from './learning/learner'
 import type { LearnerParams } from './learning/learner'
 import { DEMO_DECK, makePeople, POLICIES, runPerson } from './learning/simulate'
@@ -68,7 +68,7 @@ function meanCi(xs: readonly number[]) {
 
 /** A statistic of paired samples with a 95 % percentile bootstrap interval (2000 resamples, fixed seed). */
 function bootstrap(n: number, stat: (idx: readonly number[]) => number) {
-  const rng = mulberry32(99)
+  const rng = seededRng(99)
   const all = Array.from({ length: n }, (_, i) => i)
   const values: number[] = []
   for (let b = 0; b < 2000; b++) values.push(stat(all.map(() => Math.floor(rng() * n))))

@@ -4,7 +4,7 @@ import { linearChannelToSrgb, srgbChannelToLinear, weberContrast } from '../../.
 import { CONDITIONS, type Condition } from '../../../shared/utils/conditions'
 import { ImageRejected } from './errors'
 import type { Box, Mask } from './mask'
-import { mulberry32 } from '../../../shared/utils/rng'
+import { seededRng } from '../../../shared/utils/rng'
 import { hash32, type NoiseSpec, valueNoise } from './noise'
 
 /** Long-side sizes, in pixels, every view is rendered at. */
@@ -357,7 +357,7 @@ export function renderCoverage(cov: Coverage, condition: Condition, seed: number
   const cloudNoise = scene.cloud ? noiseField(width, height, { cell: 0.45, octaves: 5 }, seed ^ 0x5BD1E995, options.scratch) : null
   const seaNoise = horizon < height ? noiseField(width, height, { cell: 0.25, octaves: 3, stretch: 6 }, seed ^ 0x1B873593, options.scratch) : null
 
-  const random = mulberry32(conditionSeed)
+  const random = seededRng(conditionSeed)
   const sunX = random() * width
   const sunY = -(0.15 + 0.25 * random()) * height
   const glareReach = 1 / (0.55 * Math.hypot(width, height))

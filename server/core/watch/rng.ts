@@ -1,19 +1,14 @@
 // Seeds and draws for a watch's plan and choices, from the one seedable generator (shared/utils/rng.ts).
-
-import { mulberry32 } from '../../../shared/utils/rng'
+import { createHash } from 'node:crypto'
+import { seededRng } from '../../../shared/utils/rng'
 import type { Rng } from '../../../shared/utils/rng'
 
-export { mulberry32 }
+export { seededRng }
 export type { Rng }
 
-/** A 32-bit seed from a string (FNV-1a), e.g. from a watch id and a position. */
+/** A 32-bit seed from a string (the first four bytes of its SHA-256), e.g. from a sighting's id. */
 export function seedFromString(text: string): number {
-  let h = 0x811C9DC5
-  for (let i = 0; i < text.length; i++) {
-    h ^= text.charCodeAt(i)
-    h = Math.imul(h, 0x01000193)
-  }
-  return h >>> 0
+  return createHash('sha256').update(text).digest().readUInt32LE(0)
 }
 
 /** A whole number in [0, n) from the rng. */

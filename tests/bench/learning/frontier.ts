@@ -7,7 +7,7 @@
 import { DEFAULT_STANDARD, readiness } from '../../../server/core/reports/readiness'
 import type { CallRecord } from '../../../server/core/reports/crew-stats'
 import { gradeCall } from '../../../shared/utils/grade'
-import { mulberry32 } from '../../../server/core/watch/rng'
+import { seededRng } from '../../../server/core/watch/rng'
 import { Learner, PAPER_PARAMS } from './learner'
 import { choicesFor, deckItems, DEMO_DECK, INTRODUCTION_MS, lookalikes, makePeople, retentionTest, REVEAL_MS, runPerson } from './simulate'
 import type { Person, PersonOutcome, Policy, RunSetup } from './simulate'
@@ -46,8 +46,8 @@ function runOne(person: Person, schedule: Schedule): PersonOutcome {
   const { deck, maxDays, standard } = SETUP
   const items = deckItems(deck)
   const look = lookalikes(deck, items)
-  const rng = mulberry32(person.seed)
-  const choiceRng = mulberry32(person.seed ^ 0x9E3779B9)
+  const rng = seededRng(person.seed)
+  const choiceRng = seededRng(person.seed ^ 0x9E3779B9)
   const learner = new Learner({ params: person.params, items: items.length, lookalike: look, rng, personBeta: person.personBeta, itemBeta: person.itemBeta })
   const trackKeys = items.map(it => ({ targetTypeId: String(it.type), aspect: it.aspect }))
   const start = Date.UTC(2026, 0, 5)

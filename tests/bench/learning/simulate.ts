@@ -11,7 +11,7 @@ import type { CallRecord } from '../../../server/core/reports/crew-stats'
 import { gradeCall } from '../../../shared/utils/grade'
 import type { CallGrade } from '../../../shared/utils/grade'
 import { exposureFor } from '../../../shared/utils/exposure'
-import { mulberry32 } from '../../../server/core/watch/rng'
+import { seededRng } from '../../../server/core/watch/rng'
 import { Learner, latencyOfS, recallOf } from './learner'
 import type { LearnerParams, Rng } from './learner'
 
@@ -75,7 +75,7 @@ function normal(rng: Rng): number {
 const BETA_SD = 0.2
 
 export function makePeople(count: number, params: LearnerParams, items: number, seed: number): Person[] {
-  const rng = mulberry32(seed)
+  const rng = seededRng(seed)
   return Array.from({ length: count }, (_, i) => ({
     seed: (seed * 7919 + i * 104729) >>> 0,
     params,
@@ -169,8 +169,8 @@ export function runPerson(person: Person, policy: Policy, setup: RunSetup): Pers
   const { deck, budget, maxDays, standard } = setup
   const items = deckItems(deck)
   const look = lookalikes(deck, items)
-  const rng = mulberry32(person.seed)
-  const choiceRng = mulberry32(person.seed ^ 0x9E3779B9)
+  const rng = seededRng(person.seed)
+  const choiceRng = seededRng(person.seed ^ 0x9E3779B9)
   const learner = new Learner({ params: person.params, items: items.length, lookalike: look, rng, personBeta: person.personBeta, itemBeta: person.itemBeta })
   const start = Date.UTC(2026, 0, 5)
   const tracks: TrackState[] = items.map(() => newTrackState(start))

@@ -3,6 +3,8 @@
 // Pavlik & Anderson, Cognitive Science 29, 2005 (spacing-dependent decay). Expected numbers are
 // the papers' equations worked by hand with the papers' a and c.
 import { describe, expect, it } from 'vitest'
+import { uniformFloat64 } from 'pure-rand/distribution/uniformFloat64'
+import { mersenne } from 'pure-rand/generator/mersenne'
 import { decayFor, latencyOfS, Learner, PAPER_PARAMS, recallOf } from '../../bench/learning/learner'
 import type { LearnerParams } from '../../bench/learning/learner'
 
@@ -71,15 +73,9 @@ describe('recall and latency (Anderson & Lebiere 1998)', () => {
   })
 
   it('retrieval with logistic noise of scale s succeeds as often as the recall probability says', () => {
-    // a seeded generator (mulberry32, common practice): 20 000 calls at A = τ + s·ln 3 → 0.75
-    let state = 12345
-    const rng = () => {
-      state = (state + 0x6D2B79F5) >>> 0
-      let t = state
-      t = Math.imul(t ^ (t >>> 15), t | 1)
-      t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-      return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-    }
+    // a seeded generator from the registry (pure-rand's Mersenne Twister): 20 000 calls at A = τ + s·ln 3 → 0.75
+    const generator = mersenne(12345)
+    const rng = () => uniformFloat64(generator)
     // one trace of decay a seen at 0 has A = −0.177 · ln t; pick t so that A = τ + s·ln 3
     const target = PAPER_PARAMS.tau + PAPER_PARAMS.s * Math.log(3)
     const t = Math.exp(-target / 0.177)

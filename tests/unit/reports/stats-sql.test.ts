@@ -11,7 +11,7 @@ import { DAY_MS, isRightCall } from '../../../server/core/reports/crew-stats'
 import type { CallRecord } from '../../../server/core/reports/crew-stats'
 import { PAIR_COUNTS_SQL, crewStatsOf, loadPersonCalls, packedSql, personReportOf, readinessOnDecks } from '../../../server/domain/stats'
 import { digestDay, digestWeek } from '../../../server/domain/digests'
-import { mulberry32 as rng } from '../../../shared/utils/rng'
+import { seededRng as rng } from '../../../shared/utils/rng'
 
 const NOW = Date.UTC(2025, 5, 16, 12)
 const ASPECTS = ['beam', 'head-on']

@@ -6,7 +6,7 @@ import { newTrackState } from '../../../server/core/scheduling/fsrs'
 import type { TrackState } from '../../../server/core/scheduling/fsrs'
 import { planCheckSighting, planTrackSighting, planWatch, trackKeys } from '../../../server/core/watch/plan'
 import type { DeckContent, PlanContext, PlanTrack } from '../../../server/core/watch/plan'
-import { mulberry32 } from '../../../server/core/watch/rng'
+import { seededRng } from '../../../server/core/watch/rng'
 
 const DAY = 86_400_000
 const NOW = Date.UTC(2026, 2, 3, 8)
@@ -46,7 +46,7 @@ function deck(overrides: Partial<DeckContent['deck']> = {}): DeckContent {
 }
 
 function ctx(content: DeckContent, seed: number): PlanContext {
-  const rng = mulberry32(seed)
+  const rng = seededRng(seed)
   let n = 0
   return { content, confusions: new Map(), rng, randomBytes: size => Uint8Array.from({ length: size }, () => (n++ * 37 + seed) & 255) }
 }

@@ -4,7 +4,7 @@ import { newTrackState, schedulerFor, toCard } from '../../../server/core/schedu
 import type { TrackState } from '../../../server/core/scheduling/fsrs'
 import { buildPracticeQueue, buildWatchQueue, INTRO_GAP, insertReshow, placeIntroductions, spreadByType } from '../../../server/core/watch/queue'
 import type { QueueTrack, WatchItem } from '../../../server/core/watch/queue'
-import { mulberry32, randomIndex } from '../../../server/core/watch/rng'
+import { seededRng, randomIndex } from '../../../server/core/watch/rng'
 
 const DAY = 86_400_000
 const NOW = Date.UTC(2025, 5, 10, 7, 30)
@@ -63,7 +63,7 @@ describe('buildWatchQueue (product.md, The drill 2)', () => {
   })
 
   it('property: no target type twice in a row whenever an order allows it (seeded, 400 random sets)', () => {
-    const rng = mulberry32(20250610)
+    const rng = seededRng(20250610)
     for (let run = 0; run < 400; run++) {
       const typeCount = 1 + randomIndex(rng, 6)
       const n = 1 + randomIndex(rng, 25)

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { LOOKOUT_EYE_HEIGHT_M, placeRange, planSighting, PX_BY_RUNG } from '../../../server/core/watch/sighting-plan'
 import { horizonDistanceM, horizonDistanceNm } from '../../../shared/utils/apparent-size'
 import type { PlanInput } from '../../../server/core/watch/sighting-plan'
-import { mulberry32 } from '../../../server/core/watch/rng'
+import { seededRng } from '../../../server/core/watch/rng'
 
 const ALL = ['backlit', 'sunlit', 'dark-cloud', 'white-cloud', 'haze', 'goggles']
 const views = [{ id: 'v1', conditions: ALL }, { id: 'v2', conditions: ALL }]
@@ -12,7 +12,7 @@ const deck = { windowMs: 5000, minExposureMs: 200 }
 const pxAt = (size: number, range: number, mag: number) => (2 * Math.atan(size / (2 * range)) * 180 / Math.PI) * mag / 0.0213
 
 function plans(track: PlanInput['track'], targetType: PlanInput['targetType'], n = 200) {
-  return Array.from({ length: n }, (_, seed) => planSighting({ track, targetType, views, deck, rng: mulberry32(seed) }))
+  return Array.from({ length: n }, (_, seed) => planSighting({ track, targetType, views, deck, rng: seededRng(seed) }))
 }
 
 describe('planSighting', () => {
@@ -65,18 +65,18 @@ describe('planSighting', () => {
   })
 
   it('a near target is seen with the naked eye', () => {
-    const p = planSighting({ track: { reps: 0, stability: 0 }, targetType: { sizeM: 8, category: 'aircraft' }, views, deck, rng: mulberry32(1) })
+    const p = planSighting({ track: { reps: 0, stability: 0 }, targetType: { sizeM: 8, category: 'aircraft' }, views, deck, rng: seededRng(1) })
     expect(p.binoculars).toBe(false)
     expect(pxAt(8, p.rangeM, 1)).toBeCloseTo(p.apparentPx, 6)
   })
 
   it('is deterministic with a seed, and falls back to the easiest rendering a view has', () => {
     const input = { track: { reps: 2, stability: 3 }, targetType: { sizeM: 30, category: 'aircraft' }, views, deck }
-    expect(planSighting({ ...input, rng: mulberry32(7) })).toEqual(planSighting({ ...input, rng: mulberry32(7) }))
+    expect(planSighting({ ...input, rng: seededRng(7) })).toEqual(planSighting({ ...input, rng: seededRng(7) }))
     const hardOnly = [{ id: 'h', conditions: ['goggles', 'haze', 'dark-cloud'] }]
-    const p = planSighting({ ...input, views: hardOnly, track: { reps: 0, stability: 0 }, rng: mulberry32(3) })
+    const p = planSighting({ ...input, views: hardOnly, track: { reps: 0, stability: 0 }, rng: seededRng(3) })
     expect(p).toMatchObject({ viewId: 'h', condition: 'haze' })
-    expect(() => planSighting({ ...input, views: [], rng: mulberry32(3) })).toThrow(RangeError)
+    expect(() => planSighting({ ...input, views: [], rng: seededRng(3) })).toThrow(RangeError)
   })
 })
 

@@ -5,7 +5,7 @@
 // stay out of the crew table, the person page and the confusions, and show on the check pages.
 import { parse } from 'csv-parse/sync'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { signedIn } from '../support/client'
+import { csvPersonId, signedIn } from '../support/client'
 import type { Client } from '../support/client'
 import { drillTrainee, ensureWatchFixture, readDb, writeDb } from '../support/watch-fixture'
 import type { WatchFixture } from '../support/watch-fixture'
@@ -46,7 +46,7 @@ describe('calls graded offline (issue 14, item 2)', () => {
     expect(row.offlineCalls).toBe(1)
     const csv = await lead.get(`/api/crews/${fx.crewId}/stats.csv?deckId=${fx.deckId}&days=30`)
     expect(csv.status).toBe(200)
-    const rec = (parse(csv.text, { columns: true, bom: true }) as Record<string, string>[]).find(x => x['Person id'] === t.id)!
+    const rec = (parse(csv.text, { columns: true, bom: true }) as Record<string, string>[]).find(x => csvPersonId(x) === t.id)!
     expect(rec['Calls graded offline']).toBe('1')
     expect(rec.Calls).toBe('3')
   })

@@ -3,7 +3,7 @@
 import { parse } from 'csv-parse/sync'
 import { quantile } from 'simple-statistics'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { signedIn } from '../support/client'
+import { csvPersonId, signedIn } from '../support/client'
 import { readDb, writeDb } from '../support/watch-fixture'
 import { DAY, createStatsFixture } from '../support/stats-fixture'
 import type { FixtureCall, StatsFixture } from '../support/stats-fixture'
@@ -122,7 +122,7 @@ describe('GET /api/crews/[id]/stats.csv', () => {
       expect(text).toMatch(/^\d+(\.\d)?$/)
     }
     for (const row of json.body.rows) {
-      const rec = records.find(x => x['Person id'] === row.userId)!
+      const rec = records.find(x => csvPersonId(x) === row.userId)!
       expect(rec.Name).toBe(row.name)
       expect(Number(rec.Calls)).toBe(row.calls)
       pctClose(rec['Right (%)']!, row.accuracy)
@@ -263,10 +263,10 @@ describe('stats.csv and formula cells', () => {
       const csv = await fx.lead.client.get(`/api/crews/${fx.crewId}/stats.csv`)
       expect(csv.status).toBe(200)
       const records = parse(csv.text, { columns: true, bom: true }) as Record<string, string>[]
-      expect(records.find(x => x['Person id'] === t.id)!.Name).toBe(`'${name}`)
+      expect(records.find(x => csvPersonId(x) === t.id)!.Name).toBe(`'${name}`)
       // Plain names and numbers are not touched.
-      expect(records.find(x => x['Person id'] === fx.trainees.t90.id)!.Name).toMatch(/^Test trainee/)
-      expect(Number(records.find(x => x['Person id'] === t.id)!.Calls)).toBeGreaterThan(0)
+      expect(records.find(x => csvPersonId(x) === fx.trainees.t90.id)!.Name).toMatch(/^Test trainee/)
+      expect(Number(records.find(x => csvPersonId(x) === t.id)!.Calls)).toBeGreaterThan(0)
     }
     finally {
       setName(t.id, before)

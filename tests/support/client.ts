@@ -109,3 +109,9 @@ export async function crewIdOf(email: string, index = 0) {
   const c = await signedIn(email)
   return (await c.get('/api/auth/me')).body.crews[index].id as string
 }
+
+/**
+ * A person id as the crew table's CSV holds it: an id may start with '-', which the CSV escapes with
+ * a leading quote like any cell a spreadsheet would read as a formula (OWASP "CSV Injection").
+ */
+export const csvPersonId = (record: Record<string, string>) => record['Person id']!.replace(/^'(?=[-=+@\t\r])/, '')
